@@ -1,0 +1,5 @@
+import sys
+
+from basisbook.cli import main
+
+sys.exit(main())

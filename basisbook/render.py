@@ -1,0 +1,283 @@
+"""Turn the engine's runs into a static site (pages, figures, results.json).
+
+The renderer knows the contract and formatting, no physics.  It prepares plain
+view dictionaries; templates only loop over them and test conditions.
+Jinja runs with autoescape on and StrictUndefined, so a missing value is an
+error, never a blank cell.
+"""
+
+from __future__ import annotations
+
+import html
+import json
+import shutil
+from importlib import resources
+from pathlib import Path
+from typing import Any
+
+from markupsafe import Markup
+
+from basisbook import __version__, figures
+from basisbook.engine import CalcRun
+from basisbook.mathfmt import (
+    mathml,
+    number_text,
+    quantity_latex,
+    substitute,
+    substitute_values,
+    unit_text,
+)
+from basisbook.project import InputValue, Project
+
+SITE_MARKER = ".basisbook-site"
+
+
+def builtin_templates() -> Path:
+    return Path(str(resources.files("templates")))
+
+
+def environment(project_root: Path) -> Any:
+    import jinja2
+
+    loaders: list[jinja2.BaseLoader] = []
+    override = project_root / "templates"
+    if override.is_dir():
+        loaders.append(jinja2.FileSystemLoader(str(override)))
+    loaders.append(jinja2.FileSystemLoader(str(builtin_templates())))
+    return jinja2.Environment(
+        loader=jinja2.ChoiceLoader(loaders),
+        autoescape=True,
+        undefined=jinja2.StrictUndefined,
+        keep_trailing_newline=True,
+        trim_blocks=True,
+        lstrip_blocks=True,
+    )
+
+
+def markdown(text: str) -> Markup:
+    from markdown_it import MarkdownIt
+
+    # raw HTML off: project text can never inject markup
+    md = MarkdownIt("commonmark", {"html": False, "linkify": False})
+    return Markup(md.render(text or ""))
+
+
+def source_page(rel: str) -> str:
+    return "source/" + rel.replace("/", "__") + ".html"
+
+
+def _source_view(iv: InputValue, root: str) -> dict[str, Any]:
+    s = iv.source
+    if s.link:
+        inst, out = s.link
+        href = f"{root}index.html#site-{out}" if inst == "site" else f"{root}{inst}.html#out-{out}"
+        return {"kind": "link", "href": href, "label": f"{inst}.{out}",
+                "file": s.file, "line": s.line,
+                "file_href": f"{root}{source_page(s.file)}#L{s.line}" if s.file else ""}
+    if s.default:
+        return {"kind": "default", "href": "", "label": "module default", "file": "", "line": 0,
+                "file_href": ""}
+    return {"kind": "file", "href": f"{root}{source_page(s.file)}#L{s.line}",  # type: ignore[arg-type]
+            "label": f"{s.file}:{s.line}", "file": s.file, "line": s.line, "file_href": ""}
+
+
+def _math(latex: str, display: bool = False) -> Markup:
+    return Markup(mathml(latex, display))
+
+
+def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun]) -> dict[str, Any]:
+    spec = run.spec
+    symbols = {i.name: i.symbol for i in spec.inputs} | {o.name: o.symbol for o in spec.outputs}
+    units = {i.name: i.unit for i in spec.inputs} | {o.name: o.unit for o in spec.outputs}
+    values: dict[str, tuple[float | str, str]] = {
+        k: (v.value, units[k]) for k, v in run.inputs.items()  # type: ignore[misc]
+    } | {k: (v, units[k]) for k, v in run.outputs.items()}
+    refs = {r.key: r for r in spec.references}
+
+    inputs = []
+    for decl in spec.inputs:
+        iv = run.inputs[decl.name]
+        inputs.append({
+            "name": decl.name, "symbol": _math(decl.symbol), "meaning": decl.meaning,
+            "value": number_text(iv.value),  # type: ignore[arg-type]
+            "unit": unit_text(decl.unit), "allowed": "" if decl.kind == "choice" else decl.allowed.text(),
+            "source": _source_view(iv, ""),
+        })
+    steps = []
+    for i, s in enumerate(spec.steps, start=1):
+        lhs = "{" + symbols[s.output] + "}"
+        ref = refs[s.source]
+        steps.append({
+            "n": i, "output": s.output, "anchor": f"step-{s.output}",
+            "symbolic": _math(lhs + " = " + substitute(s.expression, symbols), True),
+            "numeric": _math(lhs + " = " + substitute_values(s.expression, values), True),
+            "result": _math(lhs + " = " + quantity_latex(run.outputs[s.output], units[s.output]), True),
+            "source": ref.citation, "source_key": ref.key, "locator": s.locator, "note": s.note,
+        })
+    stepped = {s.output for s in spec.steps}
+    outputs = []
+    for o in spec.outputs:
+        used = [{"href": f"{iid}.html#in-{name}", "label": f"{iid}.{name}"}
+                for iid, name in run.used_by.get(o.name, [])]
+        outputs.append({
+            "name": o.name, "symbol": _math(o.symbol), "meaning": o.meaning,
+            "value": number_text(run.outputs[o.name]), "unit": unit_text(o.unit),
+            "anchor": f"out-{o.name}",
+            "step": f"#step-{o.name}" if o.name in stepped else "",
+            "used_by": used,
+        })
+    checks = []
+    for c in run.checks:
+        unit = units.get(c.check.value, "")
+        checks.append({
+            "id": c.check.id, "criterion": c.check.criterion,
+            "value": number_text(c.value), "relation": c.check.relation,
+            "limit": number_text(c.limit), "unit": unit_text(unit), "verdict": c.verdict,
+            "source": refs[c.check.source].citation, "locator": c.check.locator,
+            "value_href": f"#step-{c.check.value}" if c.check.value in stepped else f"#out-{c.check.value}",
+        })
+    figs = [{"name": f.name, "title": f.title, "caption": f.caption,
+             "src": f"fig/{run.id}-{f.name}.svg"} for f in spec.figures if f.name in run.charts]
+    tables = []
+    for t in spec.tables:
+        if t.name not in run.tables:
+            continue
+        tab = run.tables[t.name]
+        tables.append({
+            "title": t.title, "caption": t.caption,
+            "columns": [h + (f" ({unit_text(u)})" if unit_text(u) else "") for h, u in tab.columns],
+            "rows": [[number_text(v) if isinstance(v, float) else str(v) for v in row] for row in tab.rows],
+        })
+    inst = run.instance
+    return {
+        "id": run.id, "title": inst.title, "kind": spec.kind, "kind_title": spec.title,
+        "purpose": spec.purpose, "notes": markdown(inst.notes),
+        "defined_at": {"label": f"{inst.file}:{inst.line}", "href": f"{source_page(inst.file)}#L{inst.line}"},
+        "inputs": inputs, "steps": steps, "outputs": outputs, "checks": checks,
+        "figures": figs, "tables": tables, "warnings": list(run.warnings),
+        "references": [{"key": r.key, "citation": r.citation, "note": r.note} for r in spec.references],
+        "cautions": list(spec.cautions),
+    }
+
+
+def results_document(project: Project, runs: list[CalcRun]) -> dict[str, Any]:
+    """Every input and output with value, unit and source (results.json)."""
+
+    def src(iv: InputValue) -> dict[str, Any]:
+        s = iv.source
+        if s.link:
+            return {"link": ".".join(s.link), "file": s.file, "line": s.line}
+        if s.default:
+            return {"default": True}
+        return {"file": s.file, "line": s.line}
+
+    rev = project.revision
+    return {
+        "tool": {"name": "basisbook", "version": __version__},
+        "project": {"name": project.name, "client": project.client, "number": project.number},
+        "revision": {"id": rev.id, "date": rev.date, "purpose": rev.purpose},
+        "site": {k: {"value": v.value, "unit": v.unit, "source": src(v)} for k, v in project.site.items()},
+        "instances": {
+            r.id: {
+                "calc": r.spec.kind,
+                "title": r.instance.title,
+                "inputs": {k: {"value": v.value, "unit": v.unit, "source": src(v)} for k, v in r.inputs.items()},
+                "outputs": {o.name: {"value": r.outputs[o.name], "unit": o.unit} for o in r.spec.outputs},
+                "checks": [{"id": c.check.id, "value": c.value, "limit": c.limit,
+                            "relation": c.check.relation, "verdict": c.verdict} for c in r.checks],
+                "warnings": list(r.warnings),
+            }
+            for r in runs
+        },
+    }
+
+
+def index_view(project: Project, runs: list[CalcRun]) -> dict[str, Any]:
+    summary = []
+    for r in runs:
+        rows = []
+        for o in r.spec.outputs:
+            if o.key:
+                stepped = any(s.output == o.name for s in r.spec.steps)
+                rows.append({"meaning": o.meaning, "symbol": _math(o.symbol),
+                             "value": number_text(r.outputs[o.name]), "unit": unit_text(o.unit),
+                             "href": f"{r.id}.html#{'step' if stepped else 'out'}-{o.name}"})
+        verdicts = {v: sum(1 for c in r.checks if c.verdict == v) for v in ("meets", "review", "fails")}
+        summary.append({"id": r.id, "title": r.instance.title, "kind_title": r.spec.title,
+                        "href": f"{r.id}.html", "rows": rows, "verdicts": verdicts,
+                        "warnings": list(r.warnings)})
+    from basisbook.project import SITE_FIELDS
+
+    site = []
+    for f in SITE_FIELDS:
+        iv = project.site[f.name]
+        site.append({"name": f.name, "symbol": _math(f.symbol), "meaning": f.meaning,
+                     "value": number_text(iv.value), "unit": unit_text(f.unit),  # type: ignore[arg-type]
+                     "source": _source_view(iv, "")})
+    return {"summary": summary, "site": site, "notes": markdown(project.notes)}
+
+
+def common_view(project: Project, runs: list[CalcRun]) -> dict[str, Any]:
+    rev = project.revision
+    return {
+        "project": {"name": project.name, "client": project.client, "number": project.number},
+        "revision": {"id": rev.id, "date": rev.date, "purpose": rev.purpose, "prepared": rev.prepared,
+                     "checked": rev.checked, "approved": rev.approved, "notes": markdown(rev.notes)},
+        "revisions": [{"id": r.id, "date": r.date, "purpose": r.purpose, "prepared": r.prepared,
+                       "checked": r.checked, "approved": r.approved, "notes": markdown(r.notes)}
+                      for r in reversed(project.revisions)],
+        "nav": [{"id": r.id, "title": r.instance.title, "href": f"{r.id}.html"} for r in runs],
+        "version": __version__,
+    }
+
+
+def _write(path: Path, text: str) -> None:
+    path.parent.mkdir(parents=True, exist_ok=True)
+    path.write_bytes(text.encode("utf-8"))
+
+
+def render_site(project: Project, runs: list[CalcRun], out: Path) -> list[str]:
+    """Write the whole site into ``out`` (an empty directory); return the files written."""
+    env = environment(project.root)
+    common = common_view(project, runs)
+    by_id = {r.id: r for r in runs}
+    written: list[str] = []
+
+    def page(rel: str, template: str, root: str, **ctx: Any) -> None:
+        text = env.get_template(template).render(root=root, page=rel, **common, **ctx)
+        _write(out / rel, text)
+        written.append(rel)
+
+    page("index.html", "index.html", "", **index_view(project, runs))
+    for r in runs:
+        view = calc_view(r, by_id)
+        page(f"{r.id}.html", "calc.html", "", calc=view)
+        for f in r.spec.figures:
+            if f.name in r.charts:
+                svg = figures.render_svg(r.charts[f.name], f"{r.instance.title}: {f.title}")
+                _write(out / "fig" / f"{r.id}-{f.name}.svg", svg)
+                written.append(f"fig/{r.id}-{f.name}.svg")
+    for rel in project.files:
+        text = (project.root / rel).read_text(encoding="utf-8")
+        lines = [{"n": i, "text": t} for i, t in enumerate(text.splitlines(), start=1)]
+        page(source_page(rel), "source.html", "../", file=rel, lines=lines)
+
+    static = builtin_templates() / "static"
+    for f in sorted(static.iterdir()):
+        if f.is_file():
+            (out / "assets").mkdir(parents=True, exist_ok=True)
+            shutil.copyfile(f, out / "assets" / f.name)
+            written.append(f"assets/{f.name}")
+    override_static = project.root / "templates" / "static"
+    if override_static.is_dir():
+        for f in sorted(override_static.iterdir()):
+            if f.is_file():
+                shutil.copyfile(f, out / "assets" / f.name)
+    doc = results_document(project, runs)
+    _write(out / "results.json", json.dumps(doc, indent=1, sort_keys=True, ensure_ascii=False) + "\n")
+    written.append("results.json")
+    _write(out / SITE_MARKER, "basisbook site: this folder is replaced on every build\n")
+    return written
+
+
+__all__ = ["render_site", "results_document", "html"]

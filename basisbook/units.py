@@ -1,0 +1,105 @@
+"""Units at the edge: parse a project value once, convert it to the declared unit.
+
+The registry is built lazily (it costs ~0.5 s) and only when a value carries a
+unit string.  Reactive power gets a dimension of its own so that "5 MVA" given
+for a reactive input is a dimension error rather than a silent mix-up.
+"""
+
+from __future__ import annotations
+
+import math
+from functools import lru_cache
+from typing import Any
+
+
+class UnitProblem(ValueError):
+    pass
+
+
+@lru_cache(maxsize=1)
+def registry() -> Any:
+    import pint
+
+    ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    # Reactive power: its own base dimension; prefixes (k, M) come with pint.
+    ureg.define("var = [reactive_power] = VAr")
+    ureg.define("per_unit = [] = pu")
+    return ureg
+
+
+def _dimensionless(unit: str) -> bool:
+    return unit in ("", "pu", "1")
+
+
+def to_unit(value: Any, unit: str) -> float:
+    """Return ``value`` as a float in ``unit``.
+
+    value: a number (taken as already in ``unit``) or a string "11 kV".
+    Raises UnitProblem with a message naming what was expected.
+    """
+    if isinstance(value, bool):
+        raise UnitProblem(f"expected a number in {unit or 'no unit'}, got a true/false value")
+    if isinstance(value, (int, float)):
+        x = float(value)
+    elif isinstance(value, str):
+        x = _parse_string(value, unit)
+    else:
+        raise UnitProblem(f"expected a number in {unit or 'no unit'} or a string with a unit, "
+                          f"got {type(value).__name__}")
+    if not math.isfinite(x):
+        raise UnitProblem(f"expected a finite number, got {value!r}")
+    return x
+
+
+def _parse_string(text: str, unit: str) -> float:
+    s = text.strip()
+    if s.lower() in ("nan", "inf", "+inf", "-inf", "infinity"):
+        raise UnitProblem(f"expected a finite number, got {text!r}")
+    try:
+        return float(s)  # a bare number in a string: declared unit
+    except ValueError:
+        pass
+    ureg = registry()
+    try:
+        q = ureg.Quantity(s)
+    except Exception as exc:  # pint raises several types for unparsable text
+        raise UnitProblem(
+            f"expected a number with a unit of {unit or 'no unit'} (like '11 kV'), "
+            f"could not read {text!r} ({type(exc).__name__})"
+        ) from None
+    if not isinstance(q, ureg.Quantity) or not isinstance(q.magnitude, (int, float)):
+        raise UnitProblem(f"expected a number with a unit, could not read {text!r}")
+    target = "" if _dimensionless(unit) else unit
+    try:
+        x = q.to(target).magnitude
+    except Exception:
+        got = _kind(q.dimensionality)
+        want = _kind(ureg.Quantity(1, target).dimensionality)
+        raise UnitProblem(
+            f"wrong dimension: {text!r} is {got}, expected {want} in {unit or 'no unit'}"
+        ) from None
+    return float(x)
+
+
+_KINDS = {
+    "[mass] * [length] ** 2 / [time] ** 3 / [current]": "a voltage",
+    "[current]": "a current",
+    "[mass] * [length] ** 2 / [time] ** 3": "a power (W or VA)",
+    "[reactive_power]": "a reactive power (var)",
+    "1 / [time]": "a frequency or rotational speed",
+    "[time]": "a time",
+    "[length]": "a length",
+    "[mass]": "a mass",
+    "[temperature]": "a temperature",
+    "[mass] / [length] / [time] ** 2": "a pressure",
+    "[mass] * [length] ** 2 / [time] ** 2": "an energy",
+    "[mass] / [time]": "a mass flow",
+    "[mass] * [length] ** 2 / [time] ** 2 / [current]": "a magnetic flux",
+    "[mass] * [length] ** 2 / [time] ** 3 / [current] ** 2": "a resistance",
+    "dimensionless": "a plain number",
+}
+
+
+def _kind(dim: Any) -> str:
+    key = str(dim)
+    return _KINDS.get(key, f"of dimension {key}")

@@ -83,9 +83,10 @@ def substitute(expression: str, symbols: dict[str, str]) -> str:
     return PLACEHOLDER.sub(lambda m: "{" + symbols[m.group(1)] + "}", expression)
 
 
-_FUNCTIONS = {"sin", "cos", "tan", "arg", "max", "min", "ln", "log", "exp", "arccos", "arcsin",
-              "arctan", "sqrt", "left", "right", "operatorname", "mathrm", "text"}
-_JUXTAPOSED = re.compile(r"(\\[A-Za-z]+|[A-Za-z0-9_}])((?:\s|\\,|\\;|\\ )*)(?=@)")
+_JUXTAPOSED = re.compile(r"(\\[A-Za-z]+|[A-Za-z0-9_)}])((?:\s|\\,|\\;|\\ )*)(?=@)")
+# what may stand right before a substituted value as the left factor of a product
+_VALUE_COMMANDS = {"pi"}
+_OPENING_GROUP = re.compile(r"\\(?:begin|text|mathrm|operatorname)\{[^{}]*\}$")
 
 
 def _explicit_products(expression: str) -> str:
@@ -93,8 +94,10 @@ def _explicit_products(expression: str) -> str:
 
     def repl(m: re.Match[str]) -> str:
         token = m.group(1)
-        if token.startswith("\\") and token[1:] in _FUNCTIONS:
-            return m.group(0)
+        if token.startswith("\\") and token[1:] not in _VALUE_COMMANDS:
+            return m.group(0)  # an operator or function such as \cdot, \sin, \left
+        if token == "}" and _OPENING_GROUP.search(m.string[: m.start(1) + 1]):
+            return m.group(0)  # the end of \begin{cases}, \text{...}: not a factor
         return token + r" \cdot "
 
     return _JUXTAPOSED.sub(repl, expression)

@@ -217,6 +217,20 @@ def index_view(project: Project, runs: list[CalcRun]) -> dict[str, Any]:
     return {"summary": summary, "site": site, "notes": markdown(project.notes)}
 
 
+def glossary_view(runs: list[CalcRun]) -> dict[str, Any]:
+    """Every name the project's calcs use, with symbol, meaning, unit and where used."""
+    terms: dict[str, dict[str, Any]] = {}
+    for r in runs:
+        for item in list(r.spec.inputs) + list(r.spec.outputs):
+            t = terms.setdefault(item.name, {"name": item.name, "symbol": _math(item.symbol),
+                                             "meaning": item.meaning, "unit": unit_text(item.unit),
+                                             "used": []})
+            kind = {"href": f"{r.id}.html", "label": r.id}
+            if kind not in t["used"]:
+                t["used"].append(kind)
+    return {"terms": [terms[k] for k in sorted(terms)]}
+
+
 def common_view(project: Project, runs: list[CalcRun]) -> dict[str, Any]:
     rev = project.revision
     return {
@@ -249,6 +263,7 @@ def render_site(project: Project, runs: list[CalcRun], out: Path) -> list[str]:
         written.append(rel)
 
     page("index.html", "index.html", "", **index_view(project, runs))
+    page("glossary.html", "glossary.html", "", **glossary_view(runs))
     for r in runs:
         view = calc_view(r, by_id)
         page(f"{r.id}.html", "calc.html", "", calc=view)

@@ -1,0 +1,31 @@
+"""Shared fixtures: the demo project, a scratch copy of it, and a built site."""
+
+from __future__ import annotations
+
+import shutil
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parent.parent
+DEMO = ROOT / "project"
+VARIANT_60HZ = ROOT / "examples" / "export-60hz"
+ARTIFACTS = ROOT / "tests" / "artifacts"
+
+
+@pytest.fixture
+def demo_copy(tmp_path: Path) -> Path:
+    """A private copy of the demo project that a test may edit."""
+    dst = tmp_path / "project"
+    shutil.copytree(DEMO, dst)
+    return dst
+
+
+@pytest.fixture(scope="session")
+def built_site(tmp_path_factory: pytest.TempPathFactory) -> Path:
+    """The demo handbook, built once per test session."""
+    from basisbook.build import build
+
+    out = tmp_path_factory.mktemp("built") / "site"
+    build(DEMO, out)
+    return out

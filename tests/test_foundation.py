@@ -1,0 +1,179 @@
+"""The plumbing under every calc: units at the edge, TOML line numbers, number
+formatting, link resolution and the demo projects end to end."""
+
+from __future__ import annotations
+
+import json
+import math
+from pathlib import Path
+
+import pytest
+
+from basisbook import engine
+from basisbook.errors import ProjectError
+from basisbook.mathfmt import number_text, substitute, substitute_values, unit_text
+from basisbook.project import InputValue, Source, load
+from basisbook.spec import Check, Range, SpecError, evaluate_check
+from basisbook.tomlpos import key_lines
+from basisbook.units import UnitProblem, to_unit
+
+ROOT = Path(__file__).resolve().parent.parent
+
+
+# --- units: parsed and converted once, at loading ---------------------------------------
+
+@pytest.mark.parametrize(
+    ("text", "unit", "expected"),
+    [
+        ("11 kV", "kV", 11.0),
+        ("11000 V", "kV", 11.0),
+        ("1560 kW", "MW", 1.56),
+        ("5000 kvar", "Mvar", 5.0),  # reactive power units are our own definition
+        ("85 %", "", 0.85),
+        ("180 %", "pu", 1.8),
+        ("300 K", "degC", 26.85),  # offset unit: 0 degC = 273.15 K (SI Brochure, 9th ed., 2.3.1)
+        ("32 degF", "degC", 0.0),
+        ("1 h", "ms", 3.6e6),
+        (0.8, "", 0.8),
+        ("0.8", "", 0.8),
+    ],
+)
+def test_to_unit_converts_at_the_edge(text: str, unit: str, expected: float) -> None:
+    assert to_unit(text, unit) == pytest.approx(expected, rel=1e-12, abs=1e-12)
+
+
+@pytest.mark.parametrize(
+    ("text", "unit", "message"),
+    [
+        ("11 kg", "kV", "is a mass, expected a voltage"),
+        ("5 MVA", "Mvar", "expected a reactive power"),  # VA and var are not interchangeable
+        ("3 kV", "", "expected a plain number"),
+        ("nan", "kV", "finite"),
+        ("-inf", "kV", "finite"),
+        (float("nan"), "kV", "finite"),
+        ("eleven kV", "kV", "could not read"),
+        (True, "kV", "true/false"),
+        ([1, 2], "kV", "got list"),
+    ],
+)
+def test_to_unit_rejects_with_a_reason(text: object, unit: str, message: str) -> None:
+    with pytest.raises(UnitProblem, match=message):
+        to_unit(text, unit)
+
+
+# --- ranges and checks -------------------------------------------------------------------
+
+def test_range_parsing_and_membership() -> None:
+    r = Range.parse("(0, 1]")
+    assert not r.contains(0.0) and r.contains(1.0) and r.contains(1e-9) and not r.contains(1.0000001)
+    assert Range.parse("[0, inf)").contains(1e300)
+    assert r.text() == "(0, 1]"
+    with pytest.raises(SpecError, match="not of the form"):
+        Range.parse("0..1")
+
+
+def test_check_verdicts_meets_review_fails() -> None:
+    c = Check("x", "value below limit", "v", "<=", 10.0, "src", review_band=0.05)
+    assert evaluate_check(c, 5.0, 10.0).verdict == "meets"
+    assert evaluate_check(c, 9.8, 10.0).verdict == "review"
+    assert evaluate_check(c, 10.2, 10.0).verdict == "fails"
+    assert evaluate_check(c, float("nan"), 10.0).verdict == "fails"
+    with pytest.raises(SpecError, match="relation"):
+        Check("y", "bad", "v", "=<", 1.0, "src")
+
+
+# --- TOML line numbers --------------------------------------------------------------------
+
+def test_key_lines_tracks_arrays_of_tables_multiline_values_and_inline_tables() -> None:
+    text = "\n".join([
+        "[project]",                     # 1
+        'name = "x"',                    # 2
+        'notes = """',                   # 3
+        "fake = 1",                      # 4  inside a string: not a key
+        '"""',                           # 5
+        "[[instance]]",                  # 6
+        'id = "a"',                      # 7
+        "[instance.inputs]",             # 8
+        "arr = [",                       # 9
+        "  1,",                          # 10
+        "]",                             # 11
+        'f = { from = "site.x" }',       # 12
+        "[[instance]]",                  # 13
+        'id = "b"',                      # 14
+        "[instance.inputs]",             # 15
+        "'quoted key' = 2",              # 16
+    ])
+    lines = key_lines(text)
+    assert lines[("project", "notes")] == 3
+    assert ("project", "fake") not in lines
+    assert lines[("instance", 0, "inputs", "arr")] == 9
+    assert lines[("instance", 0, "inputs", "f")] == 12
+    assert lines[("instance", 0, "inputs", "f", "from")] == 12
+    assert lines[("instance", 1, "id")] == 14
+    assert lines[("instance", 1, "inputs", "quoted key")] == 16
+
+
+# --- formatting -----------------------------------------------------------------------
+
+@pytest.mark.parametrize(
+    ("x", "text"),
+    [(820.0984, "820.1"), (0.8, "0.8000"), (2.0, "2"), (3000.0, "3000"), (15.625, "15.62"),
+     (-18.0, "-18"), (1.234e-5, "1.234×10⁻⁵"), (2.5e7, "2.500×10⁷"), (0.0, "0")],
+)
+def test_number_text_four_significant_figures(x: float, text: str) -> None:
+    assert number_text(x) == text
+
+
+def test_three_ways_of_showing_a_step() -> None:
+    expr = r"\frac{@p}{@pf}"
+    assert substitute(expr, {"p": "P_r", "pf": r"\cos\varphi"}) == r"\frac{{P_r}}{{\cos\varphi}}"
+    numeric = substitute_values(expr, {"p": (12.5, "MW"), "pf": (0.8, "")})
+    assert "12.50" in numeric and r"\text{MW}" in numeric and "0.8000" in numeric
+    # juxtaposed numbers get an explicit product sign: "20 0.915" would misread
+    assert r"\cdot" in substitute_values(r"@n\,@k", {"n": (20.0, ""), "k": (0.915, "")})
+    assert unit_text("m**3/s") == "m³/s" and unit_text("degC") == "°C"
+
+
+# --- links ------------------------------------------------------------------------------
+
+def test_link_converts_between_compatible_units() -> None:
+    iv = InputValue("p", None, "MW", Source("f.toml", 3, link=("a", "b")))
+    assert engine._convert_link(1560.0, "kW", iv) == pytest.approx(1.56)
+    with pytest.raises(UnitProblem, match="wrong dimension"):
+        engine._convert_link(10.0, "A", iv)
+
+
+def test_linked_value_outside_the_range_is_an_input_problem(demo_copy: Path) -> None:
+    # a speed of 3000 rpm is linked into a power-factor input: the range (0, 1] must catch it
+    p = demo_copy / "inputs" / "generators.toml"
+    text = p.read_text().replace("generator_power_factor = 0.8\ngenerator_voltage = \"0.4 kV\"",
+                                 'generator_power_factor = { from = "stg1.pole_count" }\ngenerator_voltage = "0.4 kV"')
+    p.write_text(text)
+    with pytest.raises(ProjectError, match=r"out of range: 2 .*linked from stg1.pole_count"):
+        engine.run(load(demo_copy))
+
+
+# --- the demo projects end to end ------------------------------------------------------
+
+def test_demo_results_are_the_hand_calculation(built_site: Path) -> None:
+    doc = json.loads((built_site / "results.json").read_text())
+    stg = doc["instances"]["stg1"]["outputs"]
+    # S = P / cos(phi) = 12.5 / 0.8 and I = S / (sqrt(3) U): exact arithmetic, IEC 60034-1 rated output
+    assert stg["generator_apparent_power"]["value"] == pytest.approx(15.625, rel=1e-12)
+    assert stg["generator_current"]["value"] == pytest.approx(15.625e3 / (math.sqrt(3) * 11), rel=1e-12)
+    assert stg["synchronous_speed"]["value"] == pytest.approx(3000.0)
+    gen = doc["instances"]["gen2"]
+    assert gen["outputs"]["pole_count"]["value"] == pytest.approx(4.0)
+    assert gen["inputs"]["rated_frequency"]["source"]["link"] == "site.grid_frequency"
+    assert gen["inputs"]["generator_active_power"]["value"] == pytest.approx(1.56)  # "1560 kW" -> MW
+
+
+def test_sixty_hertz_variant(tmp_path: Path) -> None:
+    from basisbook.build import build
+
+    build(ROOT / "examples" / "export-60hz", tmp_path / "site")
+    doc = json.loads((tmp_path / "site" / "results.json").read_text())
+    # n = 120 f / p at 60 Hz: 2 poles 3600 rpm, 4 poles 1800 rpm (synchronous speed table, exact)
+    assert doc["instances"]["stg1"]["outputs"]["synchronous_speed"]["value"] == pytest.approx(3600.0)
+    assert doc["instances"]["gen2"]["outputs"]["synchronous_speed"]["value"] == pytest.approx(1800.0)
+    assert doc["instances"]["stg1"]["outputs"]["electrical_period"]["value"] == pytest.approx(1000 / 60)

@@ -62,11 +62,12 @@ def dependency_order(project: Project) -> list[Instance]:
                                         f"instances: {', '.join(by_id)}"))
                 continue
             spec = by_id[target].spec
-            if out not in spec.output_names:
+            if out not in spec.output_names and out not in spec.input_names:
                 from basisbook.project import _suggest
 
                 problems.append(Problem(*where, f"link to {target}.{out}: {spec.kind} has no output "
-                                        f"{out!r}{_suggest(out, spec.output_names)}"))
+                                        f"or input {out!r}"
+                                        f"{_suggest(out, spec.output_names + spec.input_names)}"))
                 continue
             if target == inst.id:
                 problems.append(Problem(*where, f"link cycle: {inst.id} -> {inst.id}"))
@@ -105,7 +106,11 @@ def _link_value(project: Project, runs: dict[str, CalcRun], iv: InputValue) -> t
         sv = project.site[out]
         return sv.value, sv.unit  # type: ignore[return-value]
     run = runs[target]
-    return run.outputs[out], run.spec.output(out).unit
+    if out in run.outputs:
+        return run.outputs[out], run.spec.output(out).unit
+    # an upstream input (a machine constant such as x_d) may be shared the same way
+    upstream = run.inputs[out]
+    return upstream.value, upstream.unit  # type: ignore[return-value]
 
 
 def _convert_link(value: float | str, unit: str, iv: InputValue) -> float | str:

@@ -12,7 +12,7 @@ import io
 import json
 from typing import Any
 
-from basisbook.spec import Chart
+from basisbook.spec import Chart, EnergyFlow
 
 _STYLES = {"solid": "-", "dashed": "--", "dotted": ":", "dashdot": "-."}
 # A palette that stays readable in print and for common colour-vision deficiencies;
@@ -20,8 +20,12 @@ _STYLES = {"solid": "-", "dashed": "--", "dotted": ":", "dashdot": "-."}
 _COLOURS = ["#1b4f72", "#b03a2e", "#1e8449", "#7d3c98", "#b9770e", "#5d6d7e"]
 
 
-def chart_key(chart: Chart) -> str:
+def chart_key(chart: Chart | EnergyFlow) -> str:
     """A hash of everything that shapes the picture (for caching)."""
+    if isinstance(chart, EnergyFlow):
+        flows = {"u": chart.unit, "i": [[a, float(b)] for a, b in chart.inflows],
+                 "o": [[a, float(b), c] for a, b, c in chart.outflows]}
+        return hashlib.sha256(json.dumps(flows, sort_keys=True).encode()).hexdigest()
     data: dict[str, Any] = {
         "x": chart.x_label, "y": chart.y_label, "eq": chart.equal_aspect,
         "xr": chart.x_range, "yr": chart.y_range,
@@ -31,22 +35,101 @@ def chart_key(chart: Chart) -> str:
     return hashlib.sha256(json.dumps(data, sort_keys=True).encode()).hexdigest()
 
 
-def render_svg(chart: Chart, title: str) -> str:
+def render_svg(chart: Chart | EnergyFlow, title: str) -> str:
+    if isinstance(chart, EnergyFlow):
+        return _render_energy_flow(chart, title)
+    return _render_chart(chart, title)
+
+
+def _setup() -> tuple[Any, Any, Any]:
     import matplotlib
 
     matplotlib.use("svg", force=True)
     from matplotlib.backends.backend_svg import FigureCanvasSVG
     from matplotlib.figure import Figure
 
-    rc = {
-        "svg.hashsalt": "basisbook",
-        "svg.fonttype": "none",
-        "font.size": 9,
-        "font.family": "DejaVu Sans",
-        "axes.grid": True,
-        "grid.alpha": 0.35,
-    }
-    with matplotlib.rc_context(rc):
+    return matplotlib, FigureCanvasSVG, Figure
+
+
+def _svg(fig: Any) -> str:
+    buf = io.StringIO()
+    fig.savefig(buf, format="svg", bbox_inches="tight", metadata={"Date": None, "Creator": None})
+    return buf.getvalue()
+
+
+def _render_energy_flow(flow: EnergyFlow, title: str) -> str:
+    """Energy-flow diagram: the inflows stack into one bar on the left; bands of
+    width proportional to energy run to the outflows stacked on the right,
+    products above losses (losses hatched, so print and colour-blind readers
+    see the difference without colour)."""
+    from matplotlib.patches import PathPatch, Rectangle
+    from matplotlib.path import Path as MPath
+
+    from basisbook.mathfmt import number_text, unit_text
+
+    matplotlib, FigureCanvasSVG, Figure = _setup()
+    total_in = sum(v for _, v in flow.inflows)
+    outs = sorted(flow.outflows, key=lambda o: (o[2] != "product",))  # products first, stable
+    total_out = sum(v for _, v, _k in outs)
+    u = unit_text(flow.unit)
+    gap = 0.015 * total_in
+    with matplotlib.rc_context({**_RC, "axes.grid": False}):
+        fig = Figure(figsize=(7.2, 4.6))
+        FigureCanvasSVG(fig)
+        ax = fig.add_subplot(1, 1, 1)
+        ax.set_axis_off()
+        ax.set_title(title, fontsize=10)
+        # left: inflows stacked top-down
+        y = total_in
+        for i, (label, v) in enumerate(flow.inflows):
+            ax.add_patch(Rectangle((0.0, y - v), 0.06, v, facecolor=_COLOURS[i % len(_COLOURS)],
+                                   edgecolor="black", linewidth=0.6))
+            ax.text(-0.02, y - v / 2, f"{label}\n{number_text(v)} {u}", ha="right", va="center", fontsize=8)
+            y -= v
+        # right: outflows stacked top-down with gaps; bands from the left bar
+        left_top = total_in
+        right_top = total_in + gap * (len(outs) - 1) / 2 + (total_in - total_out) / 2
+        last_label_y = float("inf")
+        for label, v, kind in outs:
+            x0, x1 = 0.06, 0.74
+            lt, lb = left_top, left_top - v
+            rt, rb = right_top, right_top - v
+            verts = [(x0, lt), ((x0 + x1) / 2, lt), ((x0 + x1) / 2, rt), (x1, rt),
+                     (x1, rb), ((x0 + x1) / 2, rb), ((x0 + x1) / 2, lb), (x0, lb), (x0, lt)]
+            codes = [MPath.MOVETO, MPath.CURVE4, MPath.CURVE4, MPath.CURVE4, MPath.LINETO,
+                     MPath.CURVE4, MPath.CURVE4, MPath.CURVE4, MPath.CLOSEPOLY]
+            product = kind == "product"
+            ax.add_patch(PathPatch(MPath(verts, codes), facecolor="#c9dbe9" if product else "#f1e2cf",
+                                   edgecolor="#1b4f72" if product else "#8a5a00", linewidth=0.6,
+                                   hatch=None if product else "///", alpha=0.95))
+            ax.add_patch(Rectangle((x1, rb), 0.03, v, facecolor="#1b4f72" if product else "#8a5a00",
+                                   edgecolor="black", linewidth=0.6))
+            # labels never overlap: each sits at least a line below the one above
+            ly = min((rt + rb) / 2, last_label_y - 0.055 * total_in)
+            last_label_y = ly
+            share = 100.0 * v / total_in
+            ax.text(0.79, ly, f"{label}: {number_text(v)} {u} ({share:.1f} %)"
+                    + ("" if product else "  [loss]"), va="center", fontsize=8)
+            left_top -= v
+            right_top -= v + gap
+        ax.set_xlim(-0.45, 1.45)
+        ax.set_ylim(min(right_top, last_label_y) - 0.05 * total_in, total_in * 1.08)
+        return _svg(fig)
+
+
+_RC = {
+    "svg.hashsalt": "basisbook",
+    "svg.fonttype": "none",
+    "font.size": 9,
+    "font.family": "DejaVu Sans",
+    "axes.grid": True,
+    "grid.alpha": 0.35,
+}
+
+
+def _render_chart(chart: Chart, title: str) -> str:
+    matplotlib, FigureCanvasSVG, Figure = _setup()
+    with matplotlib.rc_context(_RC):
         fig = Figure(figsize=(6.4, 4.6))
         FigureCanvasSVG(fig)
         ax = fig.add_subplot(1, 1, 1)
@@ -68,8 +151,7 @@ def render_svg(chart: Chart, title: str) -> str:
         ax.axhline(0, color="0.3", linewidth=0.6)
         ax.axvline(0, color="0.3", linewidth=0.6)
         if chart.series:
-            ax.legend(loc="best", fontsize=8, framealpha=0.9)
-        fig.tight_layout()
-        buf = io.StringIO()
-        fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None})
-    return buf.getvalue()
+            # below the axes, so the legend never hides a curve
+            ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.13), ncol=3, fontsize=8,
+                      frameon=False)
+        return _svg(fig)

@@ -75,7 +75,9 @@ def number_latex(x: float | str) -> str:
     return t
 
 
-def quantity_latex(x: float | str, unit: str) -> str:
+def quantity_latex(x: float | str | tuple, unit: str) -> str:
+    if isinstance(x, tuple):
+        return r"\text{(table)}"
     return number_latex(x) + ("" if isinstance(x, str) else unit_latex(unit))
 
 
@@ -109,6 +111,8 @@ def substitute_values(expression: str, values: dict[str, tuple[float | str, str]
     def repl(m: re.Match[str]) -> str:
         v, unit = values[m.group(1)]
         q = quantity_latex(v, unit)
+        if isinstance(v, tuple):
+            return "{" + q + "}"
         # a negative number or one with a unit inside a product reads better in brackets,
         # unless the expression already brackets it
         before = m.string[: m.start()].rstrip()

@@ -71,7 +71,7 @@ class Source:
 @dataclass
 class InputValue:
     name: str
-    value: float | str | None  # None until a link is resolved
+    value: float | str | tuple | None  # None until a link is resolved; tuple of rows for a table
     unit: str
     source: Source
 
@@ -171,9 +171,45 @@ def _text(value: Any, rel: str, line: int | None, key: str, out: _Collector) -> 
     return ""
 
 
+def _convert_table(decl: Input, raw: Any, rel: str, line: int | None, key: str,
+                   out: _Collector) -> tuple | None:
+    """Rows of cells, each cell converted to its column's unit and range-checked."""
+    labels = ", ".join(f"{c.label} ({c.unit or 'no unit'})" for c in decl.columns)
+    if not isinstance(raw, list) or not all(isinstance(r, list) for r in raw):
+        out.add(rel, line, key, f"expected a table: a list of rows [{labels}], got {type(raw).__name__}")
+        return None
+    if len(raw) < decl.min_rows:
+        out.add(rel, line, key, f"expected at least {decl.min_rows} rows [{labels}], got {len(raw)}")
+        return None
+    rows = []
+    ok = True
+    for n, row in enumerate(raw, start=1):
+        if len(row) != len(decl.columns):
+            out.add(rel, line, key, f"row {n}: expected {len(decl.columns)} values [{labels}], got {len(row)}")
+            ok = False
+            continue
+        cells = []
+        for col, cell in zip(decl.columns, row, strict=True):
+            try:
+                x = to_unit(cell, col.unit)
+            except UnitProblem as exc:
+                out.add(rel, line, key, f"row {n}, {col.label}: {exc}")
+                ok = False
+                continue
+            if not col.allowed.contains(x):
+                out.add(rel, line, key, f"row {n}, {col.label}: out of range: {_with_unit(f'{x:g}', col.unit)} "
+                        f"given, allowed {_with_unit(col.allowed.text(), col.unit)}")
+                ok = False
+            cells.append(x)
+        rows.append(tuple(cells))
+    return tuple(rows) if ok else None
+
+
 def _convert(decl: Input, raw: Any, rel: str, line: int | None, key: str,
-             out: _Collector) -> float | str | None:
+             out: _Collector) -> float | str | tuple | None:
     """One value to its declared unit, or a recorded problem."""
+    if decl.kind == "table":
+        return _convert_table(decl, raw, rel, line, key, out)
     if decl.kind == "choice":
         if not isinstance(raw, str) or raw not in decl.choices:
             out.add(rel, line, key, f"expected one of {', '.join(decl.choices)}; got {raw!r}"
@@ -412,6 +448,9 @@ def _load_instance(block: Any, idx: int, rel: str, lines: dict, out: _Collector,
             values[decl.name] = InputValue(decl.name, decl.default, decl.unit, Source(default=True))
             continue
         raw = given[decl.name]
+        if isinstance(raw, dict) and decl.kind == "table":
+            out.add(rel, kl, key, "a table input is written out here, not linked")
+            continue
         if isinstance(raw, dict):
             target = _link(raw, rel, kl, key, out)
             if target:

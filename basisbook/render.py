@@ -66,11 +66,16 @@ def source_page(rel: str) -> str:
     return "source/" + rel.replace("/", "__") + ".html"
 
 
-def _source_view(iv: InputValue, root: str) -> dict[str, Any]:
+def _source_view(iv: InputValue, root: str, runs_by_id: dict[str, CalcRun] | None = None) -> dict[str, Any]:
     s = iv.source
     if s.link:
         inst, out = s.link
-        href = f"{root}index.html#site-{out}" if inst == "site" else f"{root}{inst}.html#out-{out}"
+        if inst == "site":
+            href = f"{root}index.html#site-{out}"
+        else:
+            upstream = (runs_by_id or {}).get(inst)
+            kind = "in" if upstream is not None and out not in upstream.outputs else "out"
+            href = f"{root}{inst}.html#{kind}-{out}"
         return {"kind": "link", "href": href, "label": f"{inst}.{out}",
                 "file": s.file, "line": s.line,
                 "file_href": f"{root}{source_page(s.file)}#L{s.line}" if s.file else ""}
@@ -97,11 +102,20 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun]) -> dict[str, Any]:
     inputs = []
     for decl in spec.inputs:
         iv = run.inputs[decl.name]
+        table = None
+        if decl.kind == "table":
+            table = {"columns": [c.label + (f" ({unit_text(c.unit)})" if unit_text(c.unit) else "")
+                                 for c in decl.columns],
+                     "rows": [[number_text(x) for x in row] for row in iv.value]}  # type: ignore[union-attr]
         inputs.append({
             "name": decl.name, "symbol": _math(decl.symbol), "meaning": decl.meaning,
-            "value": number_text(iv.value),  # type: ignore[arg-type]
-            "unit": unit_text(decl.unit), "allowed": "" if decl.kind == "choice" else decl.allowed.text(),
-            "source": _source_view(iv, ""),
+            "value": "" if table else number_text(iv.value),  # type: ignore[arg-type]
+            "table": table,
+            "unit": "" if table else unit_text(decl.unit),
+            "allowed": decl.allowed.text() if decl.kind == "number" else "",
+            "source": _source_view(iv, "", runs_by_id),
+            "used_by": [{"href": f"{iid}.html#in-{name}", "label": f"{iid}.{name}"}
+                        for iid, name in run.used_by.get(decl.name, [])],
         })
     steps = []
     for i, s in enumerate(spec.steps, start=1):

@@ -87,18 +87,35 @@ class Range:
 
 
 @dataclass(frozen=True)
+class Column:
+    """One column of a table input: label, unit (pint string) and allowed range."""
+
+    label: str
+    unit: str
+    range: str | None = None
+
+    @property
+    def allowed(self) -> Range:
+        return Range.parse(self.range) if self.range else Range()
+
+
+@dataclass(frozen=True)
 class Input:
     """A declared input.  ``name`` is a glossary name; symbol, meaning and unit
     come from the glossary unless given here.
 
-    kind: "number" (a float in ``unit``) or "choice" (one of ``choices``).
+    kind: "number" (a float in ``unit``), "choice" (one of ``choices``) or
+    "table" (rows of numbers, one per ``columns`` entry, at least ``min_rows``;
+    compute receives a tuple of row tuples in the column units).
     default: used when the project omits the key (None means required).
     """
 
     name: str
     range: str | None = None
-    default: float | str | None = None
+    default: float | str | tuple | None = None
     choices: tuple[str, ...] = ()
+    columns: tuple[Column, ...] = ()
+    min_rows: int = 1
     note: str = ""
     # filled from the glossary by CalcSpec
     symbol: str = ""
@@ -107,6 +124,8 @@ class Input:
 
     @property
     def kind(self) -> str:
+        if self.columns:
+            return "table"
         return "choice" if self.choices else "number"
 
     @property
@@ -334,6 +353,19 @@ class Chart:
 
 
 @dataclass
+class EnergyFlow:
+    """Energy-flow (Sankey) figure data: what comes in and where it goes.
+
+    inflows: (label, value); outflows: (label, value, "product" or "loss").
+    The values must balance; the figure is drawn by the engine.
+    """
+
+    unit: str
+    inflows: list[tuple[str, float]]
+    outflows: list[tuple[str, float, str]]
+
+
+@dataclass
 class Table:
     """A small result table: column headers with units, rows of numbers/text."""
 
@@ -344,7 +376,7 @@ class Table:
 @dataclass
 class Result:
     outputs: dict[str, float | str]
-    charts: dict[str, Chart] = field(default_factory=dict)
+    charts: dict[str, Chart | EnergyFlow] = field(default_factory=dict)
     tables: dict[str, Table] = field(default_factory=dict)
     warnings: list[str] = field(default_factory=list)
 

@@ -149,4 +149,6 @@ GLOSSARY: dict[str, Term] = {
         "prime-mover rating less generator rated active power",
         "MW",
     ),
+    # --- excitation system (calcs/excitation.py) ---
+    # --- steam cycle (calcs/steam_cycle.py) ---
 }

@@ -53,7 +53,7 @@ CASES = [
     ("link-missing-instance", GEN, '{ from = "site.grid_frequency" }', '{ from = "stg9.rated_frequency" }',
      r"link to stg9\.rated_frequency: no instance 'stg9'", "stg9"),
     ("link-missing-output", GEN, 'armature_resistance = "0.01 pu"', 'armature_resistance = { from = "stg1.armature_resistanse" }',
-     r"link to stg1\.armature_resistanse: synchronous_generator has no output 'armature_resistanse'", "armature_resistanse"),
+     r"link to stg1\.armature_resistanse: synchronous_generator has no output or input 'armature_resistanse'", "armature_resistanse"),
     ("link-missing-site-value", GEN, '{ from = "site.grid_frequency" }', '{ from = "site.grid_frequencies" }',
      r"link to site\.grid_frequencies: the site has no such value", "grid_frequencies"),
     ("link-bad-form", GEN, '{ from = "site.grid_frequency" }', '{ form = "site.grid_frequency" }',

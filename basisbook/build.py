@@ -27,6 +27,8 @@ def check(root: Path) -> list:
 def build(root: Path, out: Path) -> tuple[int, Path]:
     """Build ``root`` into ``out``; return (page count, out)."""
     out = Path(out).resolve()
+    if out.exists() and not out.is_dir():
+        raise ProjectError([Problem(str(out), None, "--out", "is a file, not a folder")])
     if out.exists() and any(out.iterdir()) and not (out / SITE_MARKER).exists():
         raise ProjectError([Problem(str(out), None, "--out",
                                     "exists and is not a basisbook site; refusing to replace it "

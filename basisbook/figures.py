@@ -78,13 +78,13 @@ def _render_energy_flow(flow: EnergyFlow, title: str) -> str:
         FigureCanvasSVG(fig)
         ax = fig.add_subplot(1, 1, 1)
         ax.set_axis_off()
-        ax.set_title(title, fontsize=10)
+        ax.set_title(title, fontsize=10, parse_math=False)
         # left: inflows stacked top-down
         y = total_in
         for i, (label, v) in enumerate(flow.inflows):
             ax.add_patch(Rectangle((0.0, y - v), 0.06, v, facecolor=_COLOURS[i % len(_COLOURS)],
                                    edgecolor="black", linewidth=0.6))
-            ax.text(-0.02, y - v / 2, f"{label}\n{number_text(v)} {u}", ha="right", va="center", fontsize=8)
+            ax.text(-0.02, y - v / 2, f"{label}\n{number_text(v)} {u}", ha="right", va="center", fontsize=8, parse_math=False)
             y -= v
         # right: outflows stacked top-down with gaps; bands from the left bar
         left_top = total_in
@@ -109,7 +109,7 @@ def _render_energy_flow(flow: EnergyFlow, title: str) -> str:
             last_label_y = ly
             share = 100.0 * v / total_in
             ax.text(0.79, ly, f"{label}: {number_text(v)} {u} ({share:.1f} %)"
-                    + ("" if product else "  [loss]"), va="center", fontsize=8)
+                    + ("" if product else "  [loss]"), va="center", fontsize=8, parse_math=False)
             left_top -= v
             right_top -= v + gap
         ax.set_xlim(-0.45, 1.45)
@@ -138,10 +138,10 @@ def _render_chart(chart: Chart, title: str) -> str:
                     label=s.label, linewidth=1.6)
         for m in chart.markers:
             ax.plot([m.x], [m.y], "o", color="black", markersize=5)
-            ax.annotate(m.label, (m.x, m.y), textcoords="offset points", xytext=(6, 6), fontsize=8)
+            ax.annotate(m.label, (m.x, m.y), textcoords="offset points", xytext=(6, 6), fontsize=8, parse_math=False)
         ax.set_xlabel(chart.x_label)
         ax.set_ylabel(chart.y_label)
-        ax.set_title(title, fontsize=10)
+        ax.set_title(title, fontsize=10, parse_math=False)
         if chart.x_range:
             ax.set_xlim(*chart.x_range)
         if chart.y_range:

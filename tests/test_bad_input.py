@@ -143,3 +143,11 @@ def test_refuses_to_replace_a_folder_that_is_not_a_site(demo_copy: Path, tmp_pat
     assert main(["build", str(demo_copy), "--out", str(precious)]) == 2
     assert "is not a basisbook site" in capsys.readouterr().err
     assert (precious / "thesis.txt").read_text() == "do not delete"
+
+
+def test_out_that_is_a_file_is_refused(demo_copy: Path, tmp_path: Path, capsys) -> None:
+    target = tmp_path / "site.txt"
+    target.write_text("not a folder")
+    assert main(["build", str(demo_copy), "--out", str(target)]) == 2
+    assert "is a file, not a folder" in capsys.readouterr().err
+    assert target.read_text() == "not a folder"

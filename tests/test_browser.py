@@ -1,0 +1,185 @@
+"""The handbook in a real browser from file://, with the network cut off.
+
+Uses Debian's ``chromium`` through Python playwright.  Without chromium on PATH the
+tests skip, unless BASISBOOK_REQUIRE_BROWSER=1 (set by CI), where they fail instead,
+so a CI machine that lost its browser cannot pass silently.
+Screenshots go to tests/artifacts/ (git-ignored) for a human look.
+"""
+
+from __future__ import annotations
+
+import os
+import re
+import shutil
+from collections.abc import Iterator
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import pytest
+from conftest import ARTIFACTS
+
+REQUIRED = os.environ.get("BASISBOOK_REQUIRE_BROWSER") == "1"
+ARGS = ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update"]
+
+
+def _unavailable(reason: str) -> None:
+    if REQUIRED:
+        pytest.fail(f"{reason}, and BASISBOOK_REQUIRE_BROWSER=1 requires the browser tests")
+    pytest.skip(reason)
+
+
+@dataclass
+class Traffic:
+    """What the pages did on their own: console errors, failed and non-local requests."""
+
+    console_errors: list[str] = field(default_factory=list)
+    page_errors: list[str] = field(default_factory=list)
+    failed: list[str] = field(default_factory=list)
+    blocked: list[str] = field(default_factory=list)
+    requested: list[str] = field(default_factory=list)
+
+    def clear(self) -> None:
+        for v in (self.console_errors, self.page_errors, self.failed, self.blocked, self.requested):
+            v.clear()
+
+
+@pytest.fixture(scope="module")
+def browser() -> Iterator[Any]:
+    exe = shutil.which("chromium")
+    if exe is None:
+        _unavailable("chromium is not on PATH (apt-get install -y chromium)")
+    try:
+        from playwright.sync_api import sync_playwright
+    except ImportError:
+        _unavailable("python playwright is not installed (pip install -e '.[test]')")
+    with sync_playwright() as p:
+        b = p.chromium.launch(executable_path=exe, args=ARGS)
+        try:
+            yield b
+        finally:
+            b.close()
+
+
+@pytest.fixture
+def page(browser: Any) -> Iterator[tuple[Any, Traffic]]:
+    """A fresh page whose every non-file:// request is aborted and recorded."""
+    context = browser.new_context(viewport={"width": 1280, "height": 900})
+    traffic = Traffic()
+
+    def route(r: Any) -> None:
+        url = r.request.url
+        if url.startswith("file://"):
+            r.continue_()
+        else:
+            traffic.blocked.append(url)
+            r.abort()
+
+    context.route("**/*", route)
+    pg = context.new_page()
+    pg.on("console", lambda m: traffic.console_errors.append(f"{m.text} @ {m.location}") if m.type == "error" else None)
+    pg.on("pageerror", lambda e: traffic.page_errors.append(str(e)))
+    pg.on("requestfailed", lambda r: traffic.failed.append(f"{r.url}: {r.failure}"))
+    pg.on("request", lambda r: traffic.requested.append(r.url))
+    try:
+        yield pg, traffic
+    finally:
+        context.close()
+
+
+def assert_quiet(traffic: Traffic) -> None:
+    assert not traffic.blocked, f"requests that left the machine: {traffic.blocked}"
+    assert not traffic.failed, f"failed requests: {traffic.failed}"
+    assert not traffic.console_errors, f"console errors: {traffic.console_errors}"
+    assert not traffic.page_errors, f"page errors: {traffic.page_errors}"
+    assert traffic.requested and all(u.startswith("file://") for u in traffic.requested), traffic.requested
+
+
+def test_route_blocks_and_records_a_network_request(page: tuple[Any, Traffic]) -> None:
+    # the offline proof below is only worth something if a real attempt is caught here
+    pg, traffic = page
+    pg.set_content('<img src="http://offline-check.invalid/x.png">')
+    pg.wait_for_load_state("load")
+    assert traffic.blocked == ["http://offline-check.invalid/x.png"]
+    with pytest.raises(AssertionError, match="requests that left the machine"):
+        assert_quiet(traffic)
+
+
+def test_reader_follows_a_result_to_its_inputs_and_back(built_site: Path, page: tuple[Any, Traffic]) -> None:
+    from playwright.sync_api import expect
+
+    pg, traffic = page
+    index = built_site / "index.html"
+    pg.goto(index.as_uri())
+    ARTIFACTS.mkdir(parents=True, exist_ok=True)
+    pg.screenshot(path=str(ARTIFACTS / "index.png"), full_page=True)
+
+    # summary value of the first generator -> its equation step
+    link = pg.locator("#summary a[href$='#step-generator_apparent_power']").first
+    href = link.get_attribute("href")
+    assert href is not None
+    link.click()
+    pg.wait_for_url(re.compile(r".*#step-generator_apparent_power$"))
+    calc_page = href.split("#")[0]
+    assert pg.url == (built_site / calc_page).as_uri() + "#step-generator_apparent_power"
+    step = pg.locator("#step-generator_apparent_power")
+    expect(step).to_be_visible()
+    expect(step).to_be_in_viewport()
+    expect(step.locator(".eq-result math")).to_be_visible()
+    pg.screenshot(path=str(ARTIFACTS / f"{calc_page.removesuffix('.html')}.png"), full_page=True)
+
+    # every figure loaded from disk and MathML laid out (a broken img has naturalWidth 0)
+    widths = pg.eval_on_selector_all("main img", "els => els.map(e => e.naturalWidth)")
+    assert widths and all(w > 0 for w in widths), widths
+    math_widths = pg.eval_on_selector_all(".eq math", "els => els.map(e => e.getBoundingClientRect().width)")
+    assert math_widths and all(w > 0 for w in math_widths)
+
+    # input row -> the line of the project file it was read from
+    src = pg.locator("#in-generator_voltage td.source a").first
+    src.click()
+    pg.wait_for_url(re.compile(r".*/source/.+\.html#L\d+$"))
+    n = pg.url.rsplit("#L", 1)[1]
+    line = pg.locator(f"#L{n}")
+    expect(line).to_have_count(1)
+    expect(line).to_contain_text("generator_voltage")
+    expect(line).to_be_in_viewport()
+
+    # back on the calc page, a linked input -> the site condition it came from
+    pg.go_back()
+    pg.wait_for_url(re.compile(re.escape(calc_page) + "#step-generator_apparent_power$"))
+    pg.locator("#in-rated_frequency td.source a[href$='#site-grid_frequency']").click()
+    pg.wait_for_url(re.compile(r".*/index\.html#site-grid_frequency$"))
+    target = pg.locator("#site-grid_frequency")
+    expect(target).to_be_visible()
+    expect(target).to_be_in_viewport()
+
+    assert_quiet(traffic)
+
+
+def test_every_page_opens_offline_without_errors(built_site: Path, page: tuple[Any, Traffic]) -> None:
+    pg, traffic = page
+    pages = sorted(built_site.rglob("*.html"))
+    for p in pages:
+        pg.goto(p.as_uri())
+    assert_quiet(traffic)
+    assert len({u for u in traffic.requested if u.endswith(".html")}) == len(pages)
+
+
+def test_print_hides_the_navigation(built_site: Path, page: tuple[Any, Traffic]) -> None:
+    from playwright.sync_api import expect
+
+    pg, traffic = page
+    pg.goto((built_site / "stg1.html").as_uri())
+    nav = pg.locator("nav.sidebar")
+    expect(nav).to_be_visible()
+    pg.emulate_media(media="print")
+    expect(nav).to_be_hidden()
+    expect(pg.locator("main h1")).to_be_visible()
+    expect(pg.locator("footer.disclaimer")).to_be_visible()  # the safety text must print
+    pdf = pg.pdf(format="A4")
+    assert pdf.startswith(b"%PDF")
+    (ARTIFACTS / "stg1.pdf").parent.mkdir(parents=True, exist_ok=True)
+    (ARTIFACTS / "stg1.pdf").write_bytes(pdf)
+    pg.emulate_media(media="screen")
+    expect(nav).to_be_visible()
+    assert_quiet(traffic)

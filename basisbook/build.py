@@ -40,7 +40,7 @@ def build(root: Path, out: Path) -> tuple[int, Path]:
     out.parent.mkdir(parents=True, exist_ok=True)
     tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.new-", dir=out.parent))
     try:
-        written = render_site(proj, runs, tmp)
+        written = render_site(proj, runs, tmp, final_out=out)
         os.chmod(tmp, 0o755)
         _swap(tmp, out)
     except BaseException:

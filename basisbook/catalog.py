@@ -7,7 +7,7 @@ import pkgutil
 from functools import lru_cache
 from types import ModuleType
 
-from basisbook.spec import CalcSpec
+from basisbook.spec import CalcSpec, PublishedCase
 
 _NOT_CALCS = {"glossary"}
 
@@ -37,3 +37,9 @@ def module(kind: str) -> ModuleType:
 
 def spec(kind: str) -> CalcSpec:
     return _modules()[kind].SPEC
+
+
+def published_cases() -> list[tuple[str, PublishedCase]]:
+    """Every module's checks against published numbers, as (kind, case)."""
+    return [(kind, case) for kind, mod in _modules().items()
+            for case in getattr(mod, "PUBLISHED_CASES", ())]

@@ -25,34 +25,80 @@ def _parser() -> argparse.ArgumentParser:
     b.add_argument("--out", type=Path, default=Path("site"), help="site folder (default: ./site)")
     c = sub.add_parser("check", help="validate inputs and links, run the calcs, write nothing")
     c.add_argument("project", type=Path, help="project folder (holds project.toml)")
+    a = sub.add_parser("archive", help="freeze the current revision into PROJECT/archive/rev-<id>/")
+    a.add_argument("project", type=Path, help="project folder (holds project.toml)")
+    v = sub.add_parser("verify", help="prove an archived revision unchanged (exit 1 on any mismatch)")
+    v.add_argument("snapshot", type=Path, help="snapshot folder PROJECT/archive/rev-<id> or its .zip")
+    v.add_argument("--rebuild", action="store_true",
+                   help="also recompute from the archived inputs and report every result that moved")
+    d = sub.add_parser("diff", help="what changed between two revisions")
+    d.add_argument("project", type=Path, help="project folder (holds project.toml)")
+    d.add_argument("old", help="revision id (archived)")
+    d.add_argument("new", help="revision id (archived, or the current revision)")
     return p
 
 
-def main(argv: list[str] | None = None) -> int:
-    args = _parser().parse_args(argv)
-    try:
-        if args.command == "check":
-            from basisbook.build import check
+def _run(args: argparse.Namespace) -> int:
+    if args.command == "check":
+        from basisbook.build import check
 
-            runs = check(args.project)
-            fails = sum(1 for r in runs for c in r.checks if c.verdict == "fails")
-            review = sum(1 for r in runs for c in r.checks if c.verdict == "review")
-            print(f"{args.project}: inputs valid; {len(runs)} calcs ran; design checks: "
-                  f"{fails} fail, {review} to review")
-            return 0
+        runs = check(args.project)
+        fails = sum(1 for r in runs for c in r.checks if c.verdict == "fails")
+        review = sum(1 for r in runs for c in r.checks if c.verdict == "review")
+        warnings = sum(len(r.warnings) for r in runs)
+        print(f"{args.project}: inputs valid; {len(runs)} calcs ran; design checks: "
+              f"{fails} fail, {review} to review; {warnings} plausibility warnings")
+        return 0
+    if args.command == "build":
         from basisbook.build import build
 
         pages, out = build(args.project, args.out)
         print(f"built {pages} pages into {out}")
         return 0
+    if args.command == "archive":
+        from basisbook.archive import archive
+
+        dest = archive(args.project)
+        print(f"archived revision into {dest} (and {dest.name}.zip)")
+        return 0
+    if args.command == "verify":
+        from basisbook.archive import verify
+
+        v = verify(args.snapshot, rebuild=args.rebuild)
+        for label, names in (("added", v.added), ("missing", v.missing), ("changed", v.changed)):
+            for n in names:
+                print(f"{label}: {n}")
+        for line in v.result_changes:
+            print(f"result moved on rebuild: {line}")
+        if v.ok:
+            print(f"{args.snapshot}: revision {v.revision} verified, {v.checked} files unchanged"
+                  + ("; rebuild gives the same results" if args.rebuild else ""))
+            return 0
+        print(f"{args.snapshot}: revision {v.revision} does NOT match its manifest", file=sys.stderr)
+        return 1
+    if args.command == "diff":
+        from basisbook.diff import compare, report, results_for
+        from basisbook.project import load
+
+        tol = load(args.project).change_tolerance
+        print(report(compare(results_for(args.project, args.old), results_for(args.project, args.new), tol)))
+        return 0
+    raise AssertionError(args.command)
+
+
+def main(argv: list[str] | None = None) -> int:
+    args = _parser().parse_args(argv)
+    try:
+        return _run(args)
     except ProjectError as exc:
         n = len(exc.problems)
-        print(f"{args.project}: {n} problem{'s' if n != 1 else ''} in the inputs:", file=sys.stderr)
+        where = getattr(args, "project", None) or getattr(args, "snapshot", "")
+        print(f"{where}: {n} problem{'s' if n != 1 else ''}:", file=sys.stderr)
         for p in exc.problems:
             print(f"  {p}", file=sys.stderr)
         return 2
     except KeyboardInterrupt:
-        print("interrupted; the previous site is unchanged", file=sys.stderr)
+        print("interrupted; the previous site and archives are unchanged", file=sys.stderr)
         return 130
 
 

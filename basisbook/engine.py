@@ -196,3 +196,27 @@ def run(project: Project) -> list[CalcRun]:
             if iv.source.link and iv.source.link[0] in runs:
                 runs[iv.source.link[0]].used_by.setdefault(iv.source.link[1], []).append((r.id, iv.name))
     return ordered
+
+
+@dataclass
+class PublishedResult:
+    kind: str
+    title: str
+    case: str
+    source: str
+    expected: float
+    computed: float
+    unit: str
+    tolerance: float
+    basis: str
+    agrees: bool
+
+
+def run_published_cases() -> list[PublishedResult]:
+    """Run every module's checks against published numbers (the verification appendix)."""
+    out = []
+    for kind, case in catalog.published_cases():
+        value, ok = case.run()
+        out.append(PublishedResult(kind, catalog.spec(kind).title, case.case, case.source, case.expected,
+                                   value, case.unit, case.tolerance, case.basis, ok))
+    return out

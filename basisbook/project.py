@@ -53,7 +53,10 @@ SITE_FIELDS: tuple[Input, ...] = (
     Input("grid_frequency", range="[10, 400]",
           symbol=r"f_{n}", meaning="nominal grid frequency", unit="Hz"),
 )
-PROJECT_KEYS = ("name", "client", "number", "notes")
+PROJECT_KEYS = ("name", "client", "number", "notes", "change_tolerance")
+CHANGE_TOLERANCE = Input("change_tolerance", range="[0, 0.5]", default=1e-6, symbol=r"\epsilon",
+                         meaning="relative change below which a result counts as unchanged between revisions",
+                         unit="")
 REVISION_KEYS = ("id", "date", "purpose", "prepared", "checked", "approved", "notes")
 INSTANCE_KEYS = ("id", "calc", "title", "notes", "inputs")
 
@@ -114,6 +117,7 @@ class Project:
     revisions: list[Revision]
     instances: list[Instance]
     files: list[str] = field(default_factory=list)
+    change_tolerance: float = 1e-6
 
     @property
     def revision(self) -> Revision:
@@ -264,6 +268,7 @@ def load(root: Path | str) -> Project:
 
     # --- project.toml -----------------------------------------------------
     name = client = number = notes = ""
+    change_tolerance = 1e-6
     site: dict[str, InputValue] = {}
     rel = "project.toml"
     parsed = _read_toml(root / rel, rel, out) if (root / rel).is_file() else None
@@ -285,6 +290,10 @@ def load(root: Path | str) -> Project:
         name, client, number, notes = get("name"), get("client"), get("number"), get("notes")
         if not name:
             out.add(rel, line_of(lines, ("project",)), "project.name", "missing: the project needs a name")
+        if "change_tolerance" in meta:
+            tol = _convert(CHANGE_TOLERANCE, meta["change_tolerance"], rel,
+                           line_of(lines, ("project", "change_tolerance")), "project.change_tolerance", out)
+            change_tolerance = tol if isinstance(tol, float) else 1e-6
         sdata = data.get("site", {})
         known = [f.name for f in SITE_FIELDS]
         for k in sdata:
@@ -337,7 +346,7 @@ def load(root: Path | str) -> Project:
 
     if out.problems:
         raise ProjectError(out.problems)
-    return Project(root, name, client, number, notes, site, revisions, instances, files)
+    return Project(root, name, client, number, notes, site, revisions, instances, files, change_tolerance)
 
 
 def _load_revisions(root: Path, out: _Collector, files: list[str]) -> list[Revision]:

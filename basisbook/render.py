@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import html
 import json
+import os
 import shutil
 from importlib import resources
 from pathlib import Path
@@ -18,6 +19,7 @@ from typing import Any
 from markupsafe import Markup
 
 from basisbook import __version__, figures
+from basisbook.diff import Change, Comparison
 from basisbook.engine import CalcRun
 from basisbook.mathfmt import (
     mathml,
@@ -90,8 +92,26 @@ def _math(latex: str, display: bool = False) -> Markup:
     return Markup(mathml(latex, display))
 
 
-def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun]) -> dict[str, Any]:
+def _mark(marks: dict[tuple[str, str], Change], kind: str, name: str, since: str) -> str:
+    """Margin marker text for a value that changed since the previous revision."""
+    from basisbook.diff import format_value
+
+    c = marks.get((kind, name)) or (marks.get(("row", name)) if kind == "input" else None)
+    if c is None:
+        return ""
+    if c.kind == "row":
+        return f"table rows changed since rev {since}"
+    if c.kind == "check":
+        return f"verdict was {c.old} in rev {since}"
+    if c.what == "added":
+        return f"new since rev {since}"
+    return f"changed since rev {since}: was {format_value(c.old)}"
+
+
+def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Comparison | None = None) -> dict[str, Any]:
     spec = run.spec
+    marks = cmp.marks(run.id) if cmp is not None else {}
+    since = cmp.old_rev if cmp is not None else ""
     symbols = {i.name: i.symbol for i in spec.inputs} | {o.name: o.symbol for o in spec.outputs}
     units = {i.name: i.unit for i in spec.inputs} | {o.name: o.unit for o in spec.outputs}
     values: dict[str, tuple[float | str, str]] = {
@@ -116,6 +136,7 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun]) -> dict[str, Any]:
             "source": _source_view(iv, "", runs_by_id),
             "used_by": [{"href": f"{iid}.html#in-{name}", "label": f"{iid}.{name}"}
                         for iid, name in run.used_by.get(decl.name, [])],
+            "mark": _mark(marks, "input", decl.name, since),
         })
     steps = []
     for i, s in enumerate(spec.steps, start=1):
@@ -139,6 +160,7 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun]) -> dict[str, Any]:
             "anchor": f"out-{o.name}",
             "step": f"#step-{o.name}" if o.name in stepped else "",
             "used_by": used,
+            "mark": _mark(marks, "output", o.name, since),
         })
     checks = []
     for c in run.checks:
@@ -149,6 +171,7 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun]) -> dict[str, Any]:
             "limit": number_text(c.limit), "unit": unit_text(unit), "verdict": c.verdict,
             "source": refs[c.check.source].citation, "locator": c.check.locator,
             "value_href": f"#step-{c.check.value}" if c.check.value in stepped else f"#out-{c.check.value}",
+            "mark": _mark(marks, "check", c.check.id, since),
         })
     figs = [{"name": f.name, "title": f.title, "caption": f.caption,
              "src": f"fig/{run.id}-{f.name}.svg"} for f in spec.figures if f.name in run.charts]
@@ -231,6 +254,35 @@ def index_view(project: Project, runs: list[CalcRun]) -> dict[str, Any]:
     return {"summary": summary, "site": site, "notes": markdown(project.notes)}
 
 
+def depmap_view(runs: list[CalcRun]) -> dict[str, Any]:
+    from basisbook import depmap
+
+    links = []
+    for r in runs:
+        for decl in r.spec.inputs:
+            iv = r.inputs[decl.name]
+            if iv.source.link:
+                view = _source_view(iv, "", {x.id: x for x in runs})
+                links.append({"to": f"{r.id}.{decl.name}", "to_href": f"{r.id}.html#in-{decl.name}",
+                              "from": view["label"], "from_href": view["href"]})
+    return {"map_svg": Markup(depmap.svg(runs)), "links": links}
+
+
+def verification_view() -> dict[str, Any]:
+    from basisbook.engine import run_published_cases
+
+    groups: dict[str, dict[str, Any]] = {}
+    for r in run_published_cases():
+        g = groups.setdefault(r.kind, {"kind": r.kind, "title": r.title, "rows": []})
+        g["rows"].append({"case": r.case, "source": r.source, "expected": number_text(r.expected),
+                          "computed": number_text(r.computed), "unit": unit_text(r.unit),
+                          "tolerance": "± " + number_text(r.tolerance), "basis": r.basis,
+                          "verdict": "agrees" if r.agrees else "DISAGREES"})
+    total = sum(len(g["rows"]) for g in groups.values())
+    agree = sum(1 for g in groups.values() for row in g["rows"] if row["verdict"] == "agrees")
+    return {"groups": list(groups.values()), "total": total, "agree": agree}
+
+
 def glossary_view(runs: list[CalcRun]) -> dict[str, Any]:
     """Every name the project's calcs use, with symbol, meaning, unit and where used."""
     terms: dict[str, dict[str, Any]] = {}
@@ -245,18 +297,83 @@ def glossary_view(runs: list[CalcRun]) -> dict[str, Any]:
     return {"terms": [terms[k] for k in sorted(terms)]}
 
 
-def common_view(project: Project, runs: list[CalcRun]) -> dict[str, Any]:
+def _snapshot_href(project: Project, rev_id: str, final_out: Path | None) -> str:
+    """Relative link from the site being built to an archived revision's handbook."""
+    from basisbook.archive import snapshot_dir
+
+    target = snapshot_dir(project.root, rev_id).resolve() / "site"
+    if final_out is None:
+        return ""
+    if Path(final_out).resolve() == target:
+        return "index.html"  # the snapshot being written is this very site
+    if not (target / "index.html").is_file():
+        return ""
+    return Path(os.path.relpath(target / "index.html", Path(final_out).resolve())).as_posix()
+
+
+def common_view(project: Project, runs: list[CalcRun], final_out: Path | None = None,
+                has_changes: bool = False) -> dict[str, Any]:
     rev = project.revision
     return {
         "project": {"name": project.name, "client": project.client, "number": project.number},
         "revision": {"id": rev.id, "date": rev.date, "purpose": rev.purpose, "prepared": rev.prepared,
                      "checked": rev.checked, "approved": rev.approved, "notes": markdown(rev.notes)},
         "revisions": [{"id": r.id, "date": r.date, "purpose": r.purpose, "prepared": r.prepared,
-                       "checked": r.checked, "approved": r.approved, "notes": markdown(r.notes)}
+                       "checked": r.checked, "approved": r.approved, "notes": markdown(r.notes),
+                       "snapshot": _snapshot_href(project, r.id, final_out)}
                       for r in reversed(project.revisions)],
         "nav": [{"id": r.id, "title": r.instance.title, "href": f"{r.id}.html"} for r in runs],
+        "has_changes": has_changes,
         "version": __version__,
     }
+
+
+def changes_view(cmp: Comparison, runs_by_id: dict[str, CalcRun]) -> dict[str, Any]:
+    """The "changes since the previous revision" page: every row links to its calc page."""
+    from basisbook.diff import format_value
+
+    def unit_of(c: Change) -> str:
+        return unit_text(c.unit) if c.kind in ("input", "output", "site") else ""
+
+    def href(c: Change) -> str:
+        if c.kind == "site":
+            return f"index.html#site-{c.name}"
+        if c.instance not in runs_by_id:
+            return ""
+        anchor = {"input": f"in-{c.name}", "row": f"in-{c.name}", "output": f"out-{c.name}",
+                  "check": f"check-{c.name}"}.get(c.kind, "")
+        return f"{c.instance}.html" + (f"#{anchor}" if anchor else "")
+
+    groups = []
+    titles = [("site", "Site conditions"), ("instance", "Calculations added or removed"),
+              ("input", "Inputs"), ("row", "Table rows (load lists, characteristics)"),
+              ("output", "Results that moved"), ("check", "Design checks whose verdict changed")]
+    for kind, title in titles:
+        rows = [{"where": f"{c.instance}.{c.name}" if c.name else c.instance, "href": href(c),
+                 "what": c.what, "old": format_value(c.old), "new": format_value(c.new),
+                 "unit": unit_of(c),
+                 "delta": (format_value(c.new - c.old) if kind == "output" and c.relative is not None else ""),
+                 "percent": (f"{100 * c.relative:+.3g} %" if kind == "output" and c.relative is not None else "")}
+                for c in cmp.of(kind)]
+        if rows:
+            groups.append({"title": title, "kind": kind, "rows": rows})
+    return {"changes": {"old": cmp.old_rev, "new": cmp.new_rev, "tolerance": f"{cmp.tolerance:g}",
+                        "groups": groups, "count": len(cmp.changes)}}
+
+
+def previous_comparison(project: Project, runs: list[CalcRun]) -> Comparison | None:
+    """Compare with the archived revision before the current one, if there is one."""
+    from basisbook.archive import load_snapshot_results
+    from basisbook.diff import compare
+
+    if len(project.revisions) < 2:
+        return None
+    prev = project.revisions[-2]
+    old = load_snapshot_results(project.root, prev.id)
+    if old is None:
+        return None
+    new = json.loads(json.dumps(results_document(project, runs)))
+    return compare(old, new, project.change_tolerance)
 
 
 def _write(path: Path, text: str) -> None:
@@ -264,10 +381,16 @@ def _write(path: Path, text: str) -> None:
     path.write_bytes(text.encode("utf-8"))
 
 
-def render_site(project: Project, runs: list[CalcRun], out: Path) -> list[str]:
-    """Write the whole site into ``out`` (an empty directory); return the files written."""
+def render_site(project: Project, runs: list[CalcRun], out: Path,
+                final_out: Path | None = None) -> list[str]:
+    """Write the whole site into ``out`` (an empty directory); return the files written.
+
+    ``final_out`` is where the site will live once swapped in: links to archived
+    revisions are made relative to it.
+    """
     env = environment(project.root)
-    common = common_view(project, runs)
+    cmp = previous_comparison(project, runs)
+    common = common_view(project, runs, final_out if final_out is not None else out, cmp is not None)
     by_id = {r.id: r for r in runs}
     written: list[str] = []
 
@@ -278,8 +401,12 @@ def render_site(project: Project, runs: list[CalcRun], out: Path) -> list[str]:
 
     page("index.html", "index.html", "", **index_view(project, runs))
     page("glossary.html", "glossary.html", "", **glossary_view(runs))
+    page("dependencies.html", "dependencies.html", "", **depmap_view(runs))
+    page("verification.html", "verification.html", "", **verification_view())
+    if cmp is not None:
+        page("changes.html", "changes.html", "", **changes_view(cmp, by_id))
     for r in runs:
-        view = calc_view(r, by_id)
+        view = calc_view(r, by_id, cmp)
         page(f"{r.id}.html", "calc.html", "", calc=view)
         for f in r.spec.figures:
             if f.name in r.charts:

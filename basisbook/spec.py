@@ -16,7 +16,7 @@ from __future__ import annotations
 
 import math
 import re
-from collections.abc import Iterator, Mapping, Sequence
+from collections.abc import Callable, Iterator, Mapping, Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -293,6 +293,29 @@ class CalcSpec:
             if r.key == key:
                 return r
         raise KeyError(key)
+
+
+@dataclass(frozen=True)
+class PublishedCase:
+    """A check of a module's functions against a published number.
+
+    A module lists these in ``PUBLISHED_CASES``; the test suite asserts every one
+    and the handbook's verification appendix runs and shows them at build time.
+    ``tolerance`` is absolute, in ``unit``, and ``basis`` says why it is that wide
+    (usually the digits the source prints).
+    """
+
+    case: str
+    source: str
+    expected: float
+    unit: str
+    tolerance: float
+    basis: str
+    compute: Callable[[], float]
+
+    def run(self) -> tuple[float, bool]:
+        value = float(self.compute())
+        return value, abs(value - self.expected) <= self.tolerance
 
 
 # ---------------------------------------------------------------------------

@@ -21,6 +21,7 @@ from basisbook.spec import (
     Input,
     Marker,
     Output,
+    PublishedCase,
     Reference,
     Result,
     Series,
@@ -554,3 +555,35 @@ def compute(v: Values) -> Result:
     }
     return Result(outputs=outputs, charts={"capability_chart": chart},
                   tables={"capability_table": table}, warnings=warnings)
+
+
+# ---------------------------------------------------------------------------
+# Checks against published numbers (run by the tests and shown in the
+# handbook's verification appendix)
+# ---------------------------------------------------------------------------
+
+_CHAPMAN_EX = ("S. J. Chapman, Electric Machinery Fundamentals, 5th ed., 2012, Example 4-2 "
+               "(from memory): 480 V delta, X_s = 0.1 ohm, R_A = 0.015 ohm, 1200 A at 0.8 pf lagging")
+_THERAJA_EX = ("B. L. Theraja, A Textbook of Electrical Technology Vol. II, alternator e.m.f. worked "
+               "example (from memory): 240 turns/phase, 0.03 Wb, 50 Hz, k_w = 0.96")
+
+PUBLISHED_CASES = [
+    PublishedCase("synchronous speed, 2 poles at 50 Hz", "n = 120 f / p (synchronous speed table, "
+                  "Chapman 5th ed. eq. 4-1)", 3000.0, "rpm", 1e-9, "exact",
+                  lambda: synchronous_speed(50.0, 2)),
+    PublishedCase("synchronous speed, 4 poles at 60 Hz", "n = 120 f / p (synchronous speed table, "
+                  "Chapman 5th ed. eq. 4-1)", 1800.0, "rpm", 1e-9, "exact",
+                  lambda: synchronous_speed(60.0, 4)),
+    PublishedCase("synchronous speed, 10 poles at 60 Hz", "n = 120 f / p (synchronous speed table, "
+                  "Chapman 5th ed. eq. 4-1)", 720.0, "rpm", 1e-9, "exact",
+                  lambda: synchronous_speed(60.0, 10)),
+    PublishedCase("electrical period at 50 Hz", "common practice, no source (T = 1/f)", 20.0, "ms",
+                  1e-12, "exact", lambda: electrical_period_ms(50.0)),
+    PublishedCase("phase EMF of the example alternator", _THERAJA_EX, 1534.0, "V", 3.1,
+                  "0.2 %: the book rounds sqrt(2) pi to 4.44 and prints 4 digits",
+                  lambda: induced_emf(50.0, 240, 0.03, 0.96)),
+    PublishedCase("internal EMF per phase", _CHAPMAN_EX, 532.0, "V", 0.5, "the book prints 3 digits",
+                  lambda: internal_emf_cylindrical(480.0, 1200 / math.sqrt(3), 0.8, 0.1, 0.015)[0]),
+    PublishedCase("load angle", _CHAPMAN_EX, 5.3, "deg", 0.05, "the book prints 2 digits",
+                  lambda: internal_emf_cylindrical(480.0, 1200 / math.sqrt(3), 0.8, 0.1, 0.015)[1]),
+]

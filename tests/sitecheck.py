@@ -134,6 +134,12 @@ def _check_one(site: Path, page: Path, url: str, ids: dict[Path, set[str]]) -> s
         return "absolute path (breaks when the site folder is moved)"
     target = page if not parts.path else (page.parent / unquote(parts.path)).resolve()
     if not target.is_relative_to(site):
+        # the one link allowed to leave: the revision history's link to an archived
+        # revision's own handbook (PROJECT/archive/rev-<id>/site/index.html), which must exist
+        if (target.name == "index.html" and target.parent.name == "site"
+                and target.parent.parent.name.startswith("rev-")
+                and target.parent.parent.parent.name == "archive"):
+            return None if target.is_file() else "archived revision's handbook is missing"
         return "points outside the site folder"
     if not target.exists():
         return f"no such file {_rel(site, target) if target.is_relative_to(site) else target}"

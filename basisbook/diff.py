@@ -1,0 +1,177 @@
+"""What changed between two revisions: inputs, outputs, check verdicts, table rows.
+
+Both sides are results documents (the ``results.json`` of a snapshot, or of the
+current inputs computed now), so a comparison never depends on how a page was
+rendered.  Numbers count as moved only past the project's relative tolerance.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from basisbook.errors import Problem, ProjectError
+
+
+@dataclass
+class Change:
+    kind: str  # "input", "output", "check", "row", "site"
+    instance: str
+    name: str
+    old: Any
+    new: Any
+    unit: str = ""
+    what: str = "changed"  # "added", "removed", "changed"
+
+    @property
+    def relative(self) -> float | None:
+        if isinstance(self.old, (int, float)) and isinstance(self.new, (int, float)) and self.old:
+            return (self.new - self.old) / abs(self.old)
+        return None
+
+
+@dataclass
+class Comparison:
+    old_rev: str
+    new_rev: str
+    tolerance: float
+    changes: list[Change] = field(default_factory=list)
+
+    def of(self, kind: str) -> list[Change]:
+        return [c for c in self.changes if c.kind == kind]
+
+    def marks(self, instance: str) -> dict[tuple[str, str], Change]:
+        """(kind, name) -> change, for the margin markers on one calc page."""
+        return {(c.kind, c.name): c for c in self.changes if c.instance == instance}
+
+
+def _moved(a: Any, b: Any, tol: float) -> bool:
+    if isinstance(a, (int, float)) and isinstance(b, (int, float)) and not isinstance(a, bool):
+        return abs(b - a) > tol * max(abs(a), abs(b), 1e-300)
+    return a != b
+
+
+def compare(old: dict[str, Any], new: dict[str, Any], tolerance: float) -> Comparison:
+    cmp = Comparison(old["revision"]["id"], new["revision"]["id"], tolerance)
+    add = cmp.changes.append
+    for name in sorted(set(old.get("site", {})) | set(new.get("site", {}))):
+        a, b = old["site"].get(name), new["site"].get(name)
+        if a and b and _moved(a["value"], b["value"], 0.0):
+            add(Change("site", "site", name, a["value"], b["value"], b["unit"]))
+    oi, ni = old["instances"], new["instances"]
+    for iid in sorted(set(oi) - set(ni)):
+        add(Change("instance", iid, "", oi[iid]["calc"], None, what="removed"))
+    for iid in sorted(set(ni) - set(oi)):
+        add(Change("instance", iid, "", None, ni[iid]["calc"], what="added"))
+    for iid in [i for i in ni if i in oi]:  # the new revision's order
+        a, b = oi[iid], ni[iid]
+        for name in b["inputs"]:
+            if name not in a["inputs"]:
+                add(Change("input", iid, name, None, b["inputs"][name]["value"], b["inputs"][name]["unit"], "added"))
+                continue
+            va, vb = a["inputs"][name]["value"], b["inputs"][name]["value"]
+            if isinstance(va, list) and isinstance(vb, list):
+                _rows(cmp, iid, name, va, vb, b["inputs"][name]["unit"])
+            elif _moved(va, vb, 0.0):
+                add(Change("input", iid, name, va, vb, b["inputs"][name]["unit"]))
+        for name in a["inputs"]:
+            if name not in b["inputs"]:
+                add(Change("input", iid, name, a["inputs"][name]["value"], None, a["inputs"][name]["unit"], "removed"))
+        for name, out in b["outputs"].items():
+            if name in a["outputs"] and _moved(a["outputs"][name]["value"], out["value"], tolerance):
+                add(Change("output", iid, name, a["outputs"][name]["value"], out["value"], out["unit"]))
+        old_checks = {c["id"]: c for c in a["checks"]}
+        for c in b["checks"]:
+            prev = old_checks.get(c["id"])
+            if prev and prev["verdict"] != c["verdict"]:
+                add(Change("check", iid, c["id"], prev["verdict"], c["verdict"]))
+    return cmp
+
+
+def _rows(cmp: Comparison, iid: str, name: str, old: list, new: list, unit: str) -> None:
+    """Table inputs: rows added and removed (a changed row shows as both)."""
+    old_t = [tuple(r) if isinstance(r, list) else r for r in old]
+    new_t = [tuple(r) if isinstance(r, list) else r for r in new]
+    for r in old_t:
+        if r not in new_t:
+            cmp.changes.append(Change("row", iid, name, list(r), None, unit, "removed"))
+    for r in new_t:
+        if r not in old_t:
+            cmp.changes.append(Change("row", iid, name, None, list(r), unit, "added"))
+
+
+def current_results(project_root: Path) -> dict[str, Any]:
+    import json
+
+    from basisbook import engine
+    from basisbook import project as project_mod
+    from basisbook.render import results_document
+
+    proj = project_mod.load(project_root)
+    # through JSON, so both sides have the same types (tuples become lists)
+    return json.loads(json.dumps(results_document(proj, engine.run(proj))))
+
+
+def results_for(project_root: Path, rev_id: str) -> dict[str, Any]:
+    """An archived revision's results, or the current inputs' if ``rev_id`` is current."""
+    from basisbook import archive
+    from basisbook import project as project_mod
+
+    snap = archive.load_snapshot_results(project_root, rev_id)
+    if snap is not None:
+        return snap
+    proj = project_mod.load(project_root)
+    ids = [r.id for r in proj.revisions]
+    if rev_id == proj.revision.id:
+        return current_results(project_root)
+    if rev_id in ids:
+        raise ProjectError([Problem("revisions.toml", None, "revision",
+                                    f"revision {rev_id!r} was never archived, so its results are unknown; "
+                                    f"archived: {', '.join(archived_ids(project_root)) or 'none'}")])
+    raise ProjectError([Problem("revisions.toml", None, "revision",
+                                f"unknown revision {rev_id!r}; revisions: {', '.join(ids)}")])
+
+
+def archived_ids(project_root: Path) -> list[str]:
+    from basisbook import archive
+
+    root = archive.archive_root(project_root)
+    if not root.is_dir():
+        return []
+    return sorted(p.name[4:] for p in root.iterdir() if p.is_dir() and p.name.startswith("rev-"))
+
+
+def format_value(v: Any) -> str:
+    from basisbook.mathfmt import number_text
+
+    if v is None:
+        return "—"
+    if isinstance(v, list):
+        return "[" + ", ".join(format_value(x) for x in v) + "]"
+    if isinstance(v, float):
+        return number_text(v)
+    return str(v)
+
+
+def report(cmp: Comparison) -> str:
+    """Plain-text report for the terminal."""
+    from basisbook.mathfmt import unit_text
+
+    lines = [f"changes from revision {cmp.old_rev} to {cmp.new_rev} "
+             f"(outputs past a relative tolerance of {cmp.tolerance:g})"]
+    if not cmp.changes:
+        lines.append("  no changes")
+    titles = {"site": "site conditions", "instance": "calculations", "input": "inputs",
+              "row": "table rows", "output": "outputs", "check": "design-check verdicts"}
+    for kind, title in titles.items():
+        rows = cmp.of(kind)
+        if not rows:
+            continue
+        lines.append(f"{title}:")
+        for c in rows:
+            where = f"{c.instance}.{c.name}" if c.name else c.instance
+            u = f" {unit_text(c.unit)}" if unit_text(c.unit) and kind not in ("check", "row") else ""
+            rel = f" ({100 * c.relative:+.3g} %)" if c.relative is not None and kind == "output" else ""
+            lines.append(f"  {c.what:8s} {where}: {format_value(c.old)}{u} -> {format_value(c.new)}{u}{rel}")
+    return "\n".join(lines)

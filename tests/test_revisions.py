@@ -1,0 +1,169 @@
+"""Issued revisions: archive, verify, diff, the changes page and its margin markers."""
+
+from __future__ import annotations
+
+import json
+import re
+import zipfile
+from pathlib import Path
+
+import pytest
+from sitecheck import check_links
+
+from basisbook.archive import MANIFEST, archive, verify
+from basisbook.cli import main
+
+GEN = "inputs/generators.toml"
+
+
+def _tree(folder: Path) -> dict[str, bytes]:
+    return {p.relative_to(folder).as_posix(): p.read_bytes() for p in folder.rglob("*") if p.is_file()}
+
+
+def _new_revision(root: Path, rev_id: str, purpose: str = "issued for construction") -> None:
+    with open(root / "revisions.toml", "a", encoding="utf-8") as f:
+        f.write(f'\n[[revision]]\nid = "{rev_id}"\ndate = 2026-11-20\npurpose = "{purpose}"\n'
+                'prepared = "M. Lindqvist"\nchecked = "R. Okafor"\napproved = "S. Varga"\n'
+                'notes = "Bigger engine set."\n')
+
+
+def _edit(root: Path, rel: str, old: str, new: str) -> None:
+    p = root / rel
+    text = p.read_text(encoding="utf-8")
+    assert old in text
+    p.write_text(text.replace(old, new, 1), encoding="utf-8")
+
+
+@pytest.fixture
+def archived(demo_copy: Path) -> Path:
+    """A demo copy whose current revision has been archived."""
+    demo_copy.joinpath("archive").exists() and pytest.fail("demo copy already has an archive")
+    archive(demo_copy)
+    return demo_copy
+
+
+def test_archive_holds_site_inputs_results_and_manifest(archived: Path) -> None:
+    snap = archived / "archive" / "rev-A"
+    manifest = json.loads((snap / MANIFEST).read_text())
+    assert (snap / "site" / "index.html").is_file()
+    assert (snap / "project" / GEN).read_bytes() == (archived / GEN).read_bytes()
+    assert json.loads((snap / "results.json").read_text())["revision"]["id"] == "A"
+    assert set(manifest["files"]) == {k for k in _tree(snap) if k != MANIFEST}
+    for lib in ("CoolProp", "numpy", "matplotlib", "pint", "python"):
+        assert manifest["libraries"][lib]
+    assert manifest["tool"]["name"] == "basisbook"
+    # the archived site opens on its own: every link inside it resolves
+    assert check_links(snap / "site") == []
+    # the single-file archive holds the same bytes
+    with zipfile.ZipFile(archived / "archive" / "rev-A.zip") as z:
+        zipped = {n.split("/", 1)[1]: z.read(n) for n in z.namelist()}
+    assert zipped == _tree(snap)
+
+
+def test_verify_passes_on_folder_and_zip_and_rebuild(archived: Path, capsys) -> None:
+    assert main(["verify", str(archived / "archive" / "rev-A")]) == 0
+    assert main(["verify", str(archived / "archive" / "rev-A.zip"), "--rebuild"]) == 0
+    out = capsys.readouterr().out
+    assert "16 files unchanged" in out or "files unchanged" in out
+    assert "rebuild gives the same results" in out
+
+
+@pytest.mark.parametrize("rel", ["site/index.html", "site/fig/stg1-capability_chart.svg",
+                                 f"project/{GEN}", "results.json", "site/results.json"])
+def test_one_changed_byte_fails_verify_naming_the_file(archived: Path, rel: str, capsys) -> None:
+    p = archived / "archive" / "rev-A" / rel
+    data = bytearray(p.read_bytes())
+    data[len(data) // 2] ^= 0x01  # flip one bit of one byte
+    p.write_bytes(bytes(data))
+    assert main(["verify", str(archived / "archive" / "rev-A")]) == 1
+    assert f"changed: {rel}" in capsys.readouterr().out
+
+
+def test_added_and_missing_files_fail_verify(archived: Path, capsys) -> None:
+    snap = archived / "archive" / "rev-A"
+    (snap / "site" / "extra.html").write_text("x")
+    (snap / "site" / "gen2.html").unlink()
+    v = verify(snap)
+    assert v.added == ["site/extra.html"] and v.missing == ["site/gen2.html"] and not v.ok
+
+
+def test_archiving_twice_refuses_and_changes_nothing(archived: Path, capsys) -> None:
+    before = _tree(archived / "archive")
+    assert main(["archive", str(archived)]) == 2
+    assert "already archived" in capsys.readouterr().err
+    assert _tree(archived / "archive") == before
+
+
+def test_archive_refuses_invalid_inputs(demo_copy: Path, capsys) -> None:
+    _edit(demo_copy, GEN, "generator_power_factor = 0.8", "generator_power_factor = 1.2")
+    assert main(["archive", str(demo_copy)]) == 2
+    assert "generator_power_factor" in capsys.readouterr().err
+    assert not (demo_copy / "archive").exists() or not any((demo_copy / "archive").iterdir())
+
+
+@pytest.mark.parametrize(
+    ("args", "message"),
+    [
+        (["verify", "{root}/nowhere"], "no such snapshot"),
+        (["verify", "{root}/project.toml"], "not a snapshot folder or snapshot zip"),
+        (["verify", "{root}/inputs"], "not a basisbook snapshot: no manifest.json"),
+        (["diff", "{root}", "A", "Z"], "unknown revision 'Z'"),
+    ],
+)
+def test_bad_revision_arguments_exit_2(demo_copy: Path, args: list[str], message: str, capsys) -> None:
+    argv = [a.format(root=demo_copy) for a in args]
+    assert main(argv) == 2
+    assert message in capsys.readouterr().err
+
+
+def test_manifest_missing_from_zip_exit_2(tmp_path: Path, capsys) -> None:
+    z = tmp_path / "rev-X.zip"
+    with zipfile.ZipFile(z, "w") as f:
+        f.writestr("rev-X/site/index.html", "<html></html>")
+    assert main(["verify", str(z)]) == 2
+    assert "no manifest.json" in capsys.readouterr().err
+
+
+def test_diff_reports_exactly_the_changes_and_their_consequences(archived: Path, capsys) -> None:
+    # revision B: a bigger engine set (1.56 -> 1.95 MW); nothing else changes
+    _new_revision(archived, "B")
+    _edit(archived, GEN, 'generator_active_power = "1560 kW"', 'generator_active_power = "1950 kW"')
+    _edit(archived, GEN, 'prime_mover_rating = "1.6 MW"', 'prime_mover_rating = "2.0 MW"')
+    assert main(["diff", str(archived), "A", "B"]) == 0
+    out = capsys.readouterr().out
+    changed_inputs = re.findall(r"changed  (\S+): ", out.split("outputs:")[0])
+    assert sorted(changed_inputs) == ["gen2.generator_active_power", "gen2.prime_mover_rating"]
+    assert "stg1." not in out  # the steam set is untouched
+    # consequence: S = P / cos(phi) grows by the same 25 % (IEC 60034-1 rated output, exact)
+    assert re.search(r"gen2\.generator_apparent_power: 1\.950 MVA -> 2\.438 MVA \(\+25 %\)", out), out
+
+
+def test_changes_page_and_margin_markers(archived: Path, tmp_path: Path) -> None:
+    from basisbook.build import build
+
+    _new_revision(archived, "B")
+    _edit(archived, GEN, 'generator_active_power = "1560 kW"', 'generator_active_power = "1950 kW"')
+    _edit(archived, GEN, 'prime_mover_rating = "1.6 MW"', 'prime_mover_rating = "2.0 MW"')
+    site = tmp_path / "site"
+    build(archived, site)
+    changes = (site / "changes.html").read_text()
+    assert "Changes since revision A" in changes
+    assert 'href="gen2.html#in-generator_active_power"' in changes
+    assert 'href="gen2.html#out-generator_apparent_power"' in changes
+    gen2 = (site / "gen2.html").read_text()
+    # a marker in words, not colour alone
+    assert "changed since rev A: was 1.560" in gen2
+    assert "changed since rev A" not in (site / "stg1.html").read_text()
+    index = (site / "index.html").read_text()
+    assert "archived handbook" in index and "not archived" in index
+    assert check_links(site) == []  # including the link into the archived revision A
+
+
+def test_archive_is_byte_identical_for_the_same_inputs(demo_copy: Path, tmp_path: Path) -> None:
+    import shutil
+
+    other = tmp_path / "elsewhere" / "project"
+    shutil.copytree(demo_copy, other)
+    archive(demo_copy)
+    archive(other)
+    assert (demo_copy / "archive" / "rev-A.zip").read_bytes() == (other / "archive" / "rev-A.zip").read_bytes()

@@ -43,7 +43,8 @@ class Comparison:
 
     def marks(self, instance: str) -> dict[tuple[str, str], Change]:
         """(kind, name) -> change, for the margin markers on one calc page."""
-        return {(c.kind, c.name): c for c in self.changes if c.instance == instance}
+        # a load-list row "load_list[P-101]" marks its input "load_list"
+        return {(c.kind, c.name.split("[")[0]): c for c in self.changes if c.instance == instance}
 
 
 def _moved(a: Any, b: Any, tol: float) -> bool:
@@ -71,7 +72,9 @@ def compare(old: dict[str, Any], new: dict[str, Any], tolerance: float) -> Compa
                 add(Change("input", iid, name, None, b["inputs"][name]["value"], b["inputs"][name]["unit"], "added"))
                 continue
             va, vb = a["inputs"][name]["value"], b["inputs"][name]["value"]
-            if isinstance(va, list) and isinstance(vb, list):
+            if b["inputs"][name].get("unit") == "records":
+                _records(cmp, iid, name, va, vb, b["inputs"][name].get("key_field"))
+            elif isinstance(va, list) and isinstance(vb, list):
                 _rows(cmp, iid, name, va, vb, b["inputs"][name]["unit"])
             elif _moved(va, vb, 0.0):
                 add(Change("input", iid, name, va, vb, b["inputs"][name]["unit"]))
@@ -87,6 +90,27 @@ def compare(old: dict[str, Any], new: dict[str, Any], tolerance: float) -> Compa
             if prev and prev["verdict"] != c["verdict"]:
                 add(Change("check", iid, c["id"], prev["verdict"], c["verdict"]))
     return cmp
+
+
+def _records(cmp: Comparison, iid: str, name: str, old: list, new: list, key: str | None) -> None:
+    """Load-list rows by their key (the tag): added, removed, or which cells changed."""
+    def strip(r: dict) -> dict:
+        return {k: v for k, v in r.items() if k != "_source"}
+
+    if key is None:
+        _rows(cmp, iid, name, [list(strip(r).values()) for r in old], [list(strip(r).values()) for r in new], "")
+        return
+    a = {r[key]: strip(r) for r in old}
+    b = {r[key]: strip(r) for r in new}
+    for tag in [t for t in a if t not in b]:
+        cmp.changes.append(Change("row", iid, f"{name}[{tag}]", a[tag], None, "", "removed"))
+    for tag in b:
+        if tag not in a:
+            cmp.changes.append(Change("row", iid, f"{name}[{tag}]", None, b[tag], "", "added"))
+        elif a[tag] != b[tag]:
+            cells = sorted(k for k in set(a[tag]) | set(b[tag]) if a[tag].get(k) != b[tag].get(k))
+            cmp.changes.append(Change("row", iid, f"{name}[{tag}]", {k: a[tag].get(k) for k in cells},
+                                      {k: b[tag].get(k) for k in cells}, "", "changed"))
 
 
 def _rows(cmp: Comparison, iid: str, name: str, old: list, new: list, unit: str) -> None:
@@ -149,6 +173,8 @@ def format_value(v: Any) -> str:
         return "—"
     if isinstance(v, list):
         return "[" + ", ".join(format_value(x) for x in v) + "]"
+    if isinstance(v, dict):
+        return ", ".join(f"{k} {format_value(x)}" for k, x in v.items())
     if isinstance(v, float):
         return number_text(v)
     return str(v)

@@ -340,9 +340,12 @@ def load(root: Path | str) -> Project:
             out.add(rel, line_of(lines, ("instance",)), "instance", "expected [[instance]] tables")
             continue
         for idx, block in enumerate(blocks):
-            inst = _load_instance(block, idx, rel, lines, out, seen)
+            inst = _load_instance(block, idx, rel, lines, out, seen, root)
             if inst is not None:
                 instances.append(inst)
+                for iv in inst.inputs.values():
+                    if iv.source.file and iv.source.file != rel and iv.source.file not in files:
+                        files.append(iv.source.file)  # a records file: archived and shown too
 
     if out.problems:
         raise ProjectError(out.problems)
@@ -406,7 +409,7 @@ def _load_revisions(root: Path, out: _Collector, files: list[str]) -> list[Revis
 
 
 def _load_instance(block: Any, idx: int, rel: str, lines: dict, out: _Collector,
-                   seen: dict[str, str]) -> Instance | None:
+                   seen: dict[str, str], root: Path) -> Instance | None:
     base = ("instance", idx)
     line = line_of(lines, base)
     if not isinstance(block, dict):
@@ -457,6 +460,15 @@ def _load_instance(block: Any, idx: int, rel: str, lines: dict, out: _Collector,
             values[decl.name] = InputValue(decl.name, decl.default, decl.unit, Source(default=True))
             continue
         raw = given[decl.name]
+        if decl.kind == "records":
+            from basisbook.records import load_records
+
+            loaded = load_records(decl, raw, root, rel, kl, key, out.problems)
+            if loaded is not None:
+                records, file = loaded
+                # the input's source is the records file itself; each record knows its row
+                values[decl.name] = InputValue(decl.name, records, decl.unit, Source(file, 1))
+            continue
         if isinstance(raw, dict) and decl.kind == "table":
             out.add(rel, kl, key, "a table input is written out here, not linked")
             continue

@@ -30,6 +30,7 @@ from basisbook.mathfmt import (
     unit_text,
 )
 from basisbook.project import InputValue, Project
+from basisbook.spec import Record, SourceRow
 
 SITE_MARKER = ".basisbook-site"
 
@@ -88,6 +89,15 @@ def _source_view(iv: InputValue, root: str, runs_by_id: dict[str, CalcRun] | Non
             "label": f"{s.file}:{s.line}", "file": s.file, "line": s.line, "file_href": ""}
 
 
+def _cell(v: Any) -> dict[str, Any]:
+    """A result-table cell: numbers formatted, a source row as a link to its line."""
+    if isinstance(v, SourceRow):
+        return {"text": v.label, "href": f"{source_page(v.file)}#L{v.line}", "num": False}
+    if isinstance(v, (int, float)) and not isinstance(v, bool):
+        return {"text": number_text(float(v)), "href": "", "num": True}
+    return {"text": str(v), "href": "", "num": False}
+
+
 def _math(latex: str, display: bool = False) -> Markup:
     return Markup(mathml(latex, display))
 
@@ -123,6 +133,16 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Comparison | No
     for decl in spec.inputs:
         iv = run.inputs[decl.name]
         table = None
+        if decl.kind == "records":
+            n = len(iv.value)  # type: ignore[arg-type]
+            inputs.append({
+                "name": decl.name, "symbol": _math(decl.symbol), "meaning": decl.meaning,
+                "value": f"{n} rows", "table": None, "unit": "", "allowed": "",
+                "source": {"kind": "file", "href": f"{source_page(iv.source.file)}",  # type: ignore[arg-type]
+                           "label": iv.source.file, "file": iv.source.file, "line": 1, "file_href": ""},
+                "used_by": [], "mark": _mark(marks, "input", decl.name, since),
+            })
+            continue
         if decl.kind == "table":
             table = {"columns": [c.label + (f" ({unit_text(c.unit)})" if unit_text(c.unit) else "")
                                  for c in decl.columns],
@@ -183,7 +203,7 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Comparison | No
         tables.append({
             "title": t.title, "caption": t.caption,
             "columns": [h + (f" ({unit_text(u)})" if unit_text(u) else "") for h, u in tab.columns],
-            "rows": [[number_text(v) if isinstance(v, float) else str(v) for v in row] for row in tab.rows],
+            "rows": [[_cell(v) for v in row] for row in tab.rows],
         })
     inst = run.instance
     return {
@@ -208,6 +228,14 @@ def results_document(project: Project, runs: list[CalcRun]) -> dict[str, Any]:
             return {"default": True}
         return {"file": s.file, "line": s.line}
 
+    def value(r: CalcRun, k: str, v: InputValue) -> dict[str, Any]:
+        if isinstance(v.value, tuple) and v.value and isinstance(v.value[0], Record):
+            decl = r.spec.input(k)
+            key = next((f.key for f in decl.fields if f.unique), None)
+            rows = [{**dict(rec), "_source": rec.source.label} for rec in v.value]
+            return {"value": rows, "unit": "records", "key_field": key, "source": src(v)}
+        return {"value": v.value, "unit": v.unit, "source": src(v)}
+
     rev = project.revision
     return {
         "tool": {"name": "basisbook", "version": __version__},
@@ -218,7 +246,7 @@ def results_document(project: Project, runs: list[CalcRun]) -> dict[str, Any]:
             r.id: {
                 "calc": r.spec.kind,
                 "title": r.instance.title,
-                "inputs": {k: {"value": v.value, "unit": v.unit, "source": src(v)} for k, v in r.inputs.items()},
+                "inputs": {k: value(r, k, v) for k, v in r.inputs.items()},
                 "outputs": {o.name: {"value": r.outputs[o.name], "unit": o.unit} for o in r.spec.outputs},
                 "checks": [{"id": c.check.id, "value": c.value, "limit": c.limit,
                             "relation": c.check.relation, "verdict": c.verdict} for c in r.checks],
@@ -340,7 +368,7 @@ def changes_view(cmp: Comparison, runs_by_id: dict[str, CalcRun]) -> dict[str, A
             return f"index.html#site-{c.name}"
         if c.instance not in runs_by_id:
             return ""
-        anchor = {"input": f"in-{c.name}", "row": f"in-{c.name}", "output": f"out-{c.name}",
+        anchor = {"input": f"in-{c.name}", "row": f"in-{c.name.split('[')[0]}", "output": f"out-{c.name}",
                   "check": f"check-{c.name}"}.get(c.kind, "")
         return f"{c.instance}.html" + (f"#{anchor}" if anchor else "")
 
@@ -414,8 +442,9 @@ def render_site(project: Project, runs: list[CalcRun], out: Path,
                 _write(out / "fig" / f"{r.id}-{f.name}.svg", svg)
                 written.append(f"fig/{r.id}-{f.name}.svg")
     for rel in project.files:
-        text = (project.root / rel).read_text(encoding="utf-8")
-        lines = [{"n": i, "text": t} for i, t in enumerate(text.splitlines(), start=1)]
+        from basisbook.records import display_lines
+
+        lines = [{"n": i, "text": t} for i, t in enumerate(display_lines(project.root / rel), start=1)]
         page(source_page(rel), "source.html", "../", file=rel, lines=lines)
 
     static = builtin_templates() / "static"

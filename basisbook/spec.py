@@ -100,13 +100,69 @@ class Column:
 
 
 @dataclass(frozen=True)
+class Field:
+    """One column of a records file (a load list): header key, meaning, unit.
+
+    unit: a pint unit string for numbers (a cell may be "250 kW" or a plain
+    number in this unit), "text" for free text, or "choice" with ``choices``.
+    default None makes the cell required; unique=True rejects repeated values.
+    """
+
+    key: str
+    meaning: str
+    unit: str = ""
+    range: str | None = None
+    choices: tuple[str, ...] = ()
+    default: float | str | None = None
+    unique: bool = False
+
+    @property
+    def allowed(self) -> Range:
+        return Range.parse(self.range) if self.range else Range()
+
+
+@dataclass(frozen=True)
+class SourceRow:
+    """Where a record came from: project file and line (CSV) or sheet row (XLSX)."""
+
+    file: str
+    line: int
+
+    @property
+    def label(self) -> str:
+        return f"{self.file}:{self.line}"
+
+
+class Record(Mapping[str, Any]):
+    """One row of a records file, its cells in the declared units, and its source."""
+
+    def __init__(self, data: Mapping[str, Any], source: SourceRow):
+        self._data = dict(data)
+        self.source = source
+
+    def __getitem__(self, key: str) -> Any:
+        return self._data[key]
+
+    def __iter__(self) -> Iterator[str]:
+        return iter(self._data)
+
+    def __len__(self) -> int:
+        return len(self._data)
+
+    def __repr__(self) -> str:
+        return f"Record({self._data!r}, {self.source.label})"
+
+
+@dataclass(frozen=True)
 class Input:
     """A declared input.  ``name`` is a glossary name; symbol, meaning and unit
     come from the glossary unless given here.
 
-    kind: "number" (a float in ``unit``), "choice" (one of ``choices``) or
+    kind: "number" (a float in ``unit``), "choice" (one of ``choices``),
     "table" (rows of numbers, one per ``columns`` entry, at least ``min_rows``;
-    compute receives a tuple of row tuples in the column units).
+    compute receives a tuple of row tuples in the column units) or "records"
+    (a CSV or XLSX file in the project with one column per ``fields`` entry;
+    compute receives a tuple of Record, each knowing its file and line).
     default: used when the project omits the key (None means required).
     """
 
@@ -115,6 +171,7 @@ class Input:
     default: float | str | tuple | None = None
     choices: tuple[str, ...] = ()
     columns: tuple[Column, ...] = ()
+    fields: tuple[Field, ...] = ()
     min_rows: int = 1
     note: str = ""
     # filled from the glossary by CalcSpec
@@ -124,6 +181,8 @@ class Input:
 
     @property
     def kind(self) -> str:
+        if self.fields:
+            return "records"
         if self.columns:
             return "table"
         return "choice" if self.choices else "number"

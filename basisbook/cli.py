@@ -31,6 +31,11 @@ def _parser() -> argparse.ArgumentParser:
     v.add_argument("snapshot", type=Path, help="snapshot folder PROJECT/archive/rev-<id> or its .zip")
     v.add_argument("--rebuild", action="store_true",
                    help="also recompute from the archived inputs and report every result that moved")
+    f = sub.add_parser("pdf", help="build, then print the one-document view to PDF (headless chromium)")
+    f.add_argument("project", type=Path, help="project folder (holds project.toml)")
+    f.add_argument("--out", type=Path, default=Path("site"), help="site folder (default: ./site)")
+    f.add_argument("--pdf", type=Path, default=None,
+                   help="PDF file (default: handbook-rev<id>.pdf beside the site folder)")
     d = sub.add_parser("diff", help="what changed between two revisions")
     d.add_argument("project", type=Path, help="project folder (holds project.toml)")
     d.add_argument("old", help="revision id (archived)")
@@ -54,6 +59,15 @@ def _run(args: argparse.Namespace) -> int:
 
         pages, out = build(args.project, args.out)
         print(f"built {pages} pages into {out}")
+        return 0
+    if args.command == "pdf":
+        from basisbook.build import build
+        from basisbook.pdf import print_pdf
+        from basisbook.project import load
+
+        pages, out = build(args.project, args.out)
+        target = args.pdf or out.parent / f"handbook-rev{load(args.project).revision.id}.pdf"
+        print(f"built {pages} pages into {out}; printed {print_pdf(out, target)}")
         return 0
     if args.command == "archive":
         from basisbook.archive import archive

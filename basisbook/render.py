@@ -30,7 +30,7 @@ from basisbook.mathfmt import (
     unit_text,
 )
 from basisbook.project import InputValue, Project
-from basisbook.spec import Record, SourceRow
+from basisbook.spec import Record, SingleLine, SourceRow
 
 SITE_MARKER = ".basisbook-site"
 
@@ -96,6 +96,53 @@ def _cell(v: Any) -> dict[str, Any]:
     if isinstance(v, (int, float)) and not isinstance(v, bool):
         return {"text": number_text(float(v)), "href": "", "num": True}
     return {"text": str(v), "href": "", "num": False}
+
+
+def _plain_symbol(latex: str) -> str:
+    """LaTeX symbol as searchable text: S_\\mathrm{r} -> S_r, \\cos\\varphi -> cos varphi."""
+    import re
+
+    t = re.sub(r"\\(mathrm|text|operatorname)\{([^{}]*)\}", r"\2", latex)
+    t = re.sub(r"\\([A-Za-z]+)", r"\1 ", t)
+    return re.sub(r"[{}\s]+", " ", t).replace(" _", "_").strip()
+
+
+def search_index(runs: list[CalcRun]) -> str:
+    """The offline search index as a script (file:// pages cannot fetch JSON)."""
+    entries: list[dict[str, str]] = []
+    for r in runs:
+        entries.append({"t": r.instance.title, "k": "calculation", "h": f"{r.id}.html",
+                        "s": f"{r.id} {r.spec.title}"})
+        for decl in r.spec.inputs:
+            iv = r.inputs[decl.name]
+            entries.append({"t": f"{r.id}.{decl.name}", "k": "input", "h": f"{r.id}.html#in-{decl.name}",
+                            "s": f"{_plain_symbol(decl.symbol)} {decl.meaning}"})
+            if decl.kind == "records":
+                for rec in iv.value:  # type: ignore[union-attr]
+                    words = " ".join(str(v) for v in rec.values() if isinstance(v, str))
+                    entries.append({"t": f"{rec.get('tag', rec.source.label)}", "k": "load-list row",
+                                    "h": f"{source_page(rec.source.file)}#L{rec.source.line}",
+                                    "s": f"{words} {r.id}"})
+        for o in r.spec.outputs:
+            entries.append({"t": f"{r.id}.{o.name}", "k": "result", "h": f"{r.id}.html#out-{o.name}",
+                            "s": f"{_plain_symbol(o.symbol)} {o.meaning}"})
+    # \u003c keeps any "<" from project text inert even if this file were inlined
+    data = json.dumps(entries, ensure_ascii=True, sort_keys=True, separators=(",", ":")).replace("<", "\\u003c")
+    return "window.BASISBOOK_SEARCH = " + data + ";\n"
+
+
+def table_csv(table: Any) -> str:
+    """A result table as CSV (full precision, units in the header) for spreadsheets."""
+    import csv
+    import io
+
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow([h + (f" [{u}]" if u and u not in ("text",) else "") for h, u in table.columns])
+    for row in table.rows:
+        w.writerow([v.label if isinstance(v, SourceRow) else (repr(float(v)) if isinstance(v, float) else v)
+                    for v in row])
+    return buf.getvalue()
 
 
 def _math(latex: str, display: bool = False) -> Markup:
@@ -193,17 +240,28 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Comparison | No
             "value_href": f"#step-{c.check.value}" if c.check.value in stepped else f"#out-{c.check.value}",
             "mark": _mark(marks, "check", c.check.id, since),
         })
-    figs = [{"name": f.name, "title": f.title, "caption": f.caption,
-             "src": f"fig/{run.id}-{f.name}.svg"} for f in spec.figures if f.name in run.charts]
+    figs = []
+    for f in spec.figures:
+        if f.name not in run.charts:
+            continue
+        chart = run.charts[f.name]
+        inline = ""
+        if isinstance(chart, SingleLine):
+            from basisbook.singleline import svg as single_line_svg
+
+            inline = Markup(single_line_svg(chart, f.title))  # links need the SVG in the page
+        figs.append({"name": f.name, "title": f.title, "caption": f.caption,
+                     "src": "" if inline else f"fig/{run.id}-{f.name}.svg", "inline": inline})
     tables = []
     for t in spec.tables:
         if t.name not in run.tables:
             continue
         tab = run.tables[t.name]
         tables.append({
-            "title": t.title, "caption": t.caption,
+            "name": t.name, "title": t.title, "caption": t.caption,
             "columns": [h + (f" ({unit_text(u)})" if unit_text(u) else "") for h, u in tab.columns],
             "rows": [[_cell(v) for v in row] for row in tab.rows],
+            "csv": f"tables/{run.id}-{t.name}.csv",
         })
     inst = run.instance
     return {
@@ -422,10 +480,13 @@ def render_site(project: Project, runs: list[CalcRun], out: Path,
     by_id = {r.id: r for r in runs}
     written: list[str] = []
 
+    rendered: dict[str, str] = {}
+
     def page(rel: str, template: str, root: str, **ctx: Any) -> None:
         text = env.get_template(template).render(root=root, page=rel, **common, **ctx)
         _write(out / rel, text)
         written.append(rel)
+        rendered[rel] = text
 
     page("index.html", "index.html", "", **index_view(project, runs))
     page("glossary.html", "glossary.html", "", **glossary_view(runs))
@@ -437,10 +498,14 @@ def render_site(project: Project, runs: list[CalcRun], out: Path,
         view = calc_view(r, by_id, cmp)
         page(f"{r.id}.html", "calc.html", "", calc=view)
         for f in r.spec.figures:
-            if f.name in r.charts:
+            if f.name in r.charts and not isinstance(r.charts[f.name], SingleLine):
                 svg = figures.render_svg(r.charts[f.name], f"{r.instance.title}: {f.title}")
                 _write(out / "fig" / f"{r.id}-{f.name}.svg", svg)
                 written.append(f"fig/{r.id}-{f.name}.svg")
+        for t in r.spec.tables:
+            if t.name in r.tables:
+                _write(out / "tables" / f"{r.id}-{t.name}.csv", table_csv(r.tables[t.name]))
+                written.append(f"tables/{r.id}-{t.name}.csv")
     for rel in project.files:
         from basisbook.records import display_lines
 
@@ -458,6 +523,19 @@ def render_site(project: Project, runs: list[CalcRun], out: Path,
         for f in sorted(override_static.iterdir()):
             if f.is_file():
                 shutil.copyfile(f, out / "assets" / f.name)
+    # the one-document view, in reading order, for print and PDF
+    from basisbook import onedoc
+
+    order = [("index.html", "Summary")]
+    if cmp is not None:
+        order.append(("changes.html", f"Changes since revision {cmp.old_rev}"))
+    order += [(f"{r.id}.html", r.instance.title) for r in runs]
+    order += [("dependencies.html", "Dependency map"), ("glossary.html", "Glossary"),
+              ("verification.html", "Verification appendix")]
+    page("handbook.html", "handbook.html", "", sections=[
+        {**sec, "body": Markup(sec["body"])} for sec in onedoc.sections(rendered, order)])
+    _write(out / "assets" / "search-index.js", search_index(runs))
+    written.append("assets/search-index.js")
     doc = results_document(project, runs)
     _write(out / "results.json", json.dumps(doc, indent=1, sort_keys=True, ensure_ascii=False) + "\n")
     written.append("results.json")

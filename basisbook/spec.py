@@ -448,6 +448,31 @@ class EnergyFlow:
 
 
 @dataclass
+class LineElement:
+    """One element of a key single-line diagram.
+
+    symbol: "grid", "transformer", "generator", "busbar", "breaker", "motor",
+    "load" (IEC 60617 graphical symbols are drawn by the renderer).
+    parent: the element it hangs from (the diagram is a tree; the root has None).
+    link: the calc instance whose page the element opens ("" for none).
+    """
+
+    id: str
+    symbol: str
+    label: str
+    parent: str | None = None
+    link: str = ""
+    anchor: str = ""
+
+
+@dataclass
+class SingleLine:
+    """Key single-line diagram data; drawn inline so every element is a link."""
+
+    elements: list[LineElement]
+
+
+@dataclass
 class Table:
     """A small result table: column headers with units, rows of numbers/text."""
 
@@ -458,7 +483,7 @@ class Table:
 @dataclass
 class Result:
     outputs: dict[str, float | str]
-    charts: dict[str, Chart | EnergyFlow] = field(default_factory=dict)
+    charts: dict[str, Chart | EnergyFlow | SingleLine] = field(default_factory=dict)
     tables: dict[str, Table] = field(default_factory=dict)
     warnings: list[str] = field(default_factory=list)
 

@@ -183,3 +183,89 @@ def test_print_hides_the_navigation(built_site: Path, page: tuple[Any, Traffic])
     pg.emulate_media(media="screen")
     expect(nav).to_be_visible()
     assert_quiet(traffic)
+
+
+# --- the search box (built-time index, our own script) ------------------------------
+
+def test_search_box_finds_symbols_names_and_follows_offline(built_site: Path, page: tuple[Any, Traffic]) -> None:
+    pg, traffic = page
+    pg.goto((built_site / "glossary.html").as_uri())
+    pg.fill("#bb-search", "x_d")
+    labels = [a.text_content() for a in pg.query_selector_all("#bb-search-results a")]
+    assert "stg1.direct_axis_reactance" in labels, labels
+    pg.fill("#bb-search", "rated current stg1")
+    first = pg.query_selector("#bb-search-results a")
+    assert first is not None and "stg1" in (first.text_content() or "")
+    pg.press("#bb-search", "Enter")
+    pg.wait_for_load_state("load")
+    assert "/stg1.html#" in pg.url
+    pg.fill("#bb-search", "no-such-thing-anywhere")
+    assert pg.text_content("#bb-search-results") == "no match"
+    assert_quiet(traffic)
+
+
+def test_search_results_keep_hostile_text_inert(demo_copy: Path, tmp_path: Path, page: tuple[Any, Traffic]) -> None:
+    from basisbook.build import build
+
+    gen = demo_copy / "inputs" / "generators.toml"
+    gen.write_text(gen.read_text().replace('title = "STG-1 steam turbine generator"',
+                                           'title = "STG-1 <img src=x onerror=alert(9)> <b>bold</b>"'))
+    site = tmp_path / "site"
+    build(demo_copy, site)
+    pg, traffic = page
+    pg.goto((site / "index.html").as_uri())
+    pg.fill("#bb-search", "STG-1 <img")
+    results = pg.locator("#bb-search-results")
+    assert "<img src=x onerror=alert(9)>" in (results.text_content() or "")
+    assert results.locator("img").count() == 0 and results.locator("b").count() == 0
+    assert not traffic.page_errors and not traffic.console_errors
+
+
+# --- print-ready output ---------------------------------------------------------------
+
+def test_one_document_view_in_print(built_site: Path, page: tuple[Any, Traffic]) -> None:
+    pg, traffic = page
+    pg.goto((built_site / "handbook.html").as_uri())
+    pg.emulate_media(media="print")
+    # the revision block is on the cover, the table of contents links into the document
+    assert pg.locator("#cover .revision-block").is_visible()
+    toc = pg.locator(".toc a")
+    assert toc.count() >= 5
+    for i in range(toc.count()):
+        target = toc.nth(i).get_attribute("href")
+        assert target and target.startswith("#") and pg.locator(target).count() == 1, target
+    # a cross-reference inside the document lands inside the document
+    link = pg.locator("a[href='#stg1--step-generator_apparent_power']").first
+    assert link.count() == 1
+    assert_quiet(traffic)
+
+
+def test_pdf_first_page_has_nothing_cut_off(demo_copy: Path, tmp_path: Path) -> None:
+    """`basisbook pdf` through Debian chromium; the first page rendered by pdftoppm
+    keeps a white margin on every side (nothing runs off the paper)."""
+    if shutil.which("chromium") is None:
+        _unavailable("chromium is not on PATH")
+    if shutil.which("pdftoppm") is None:
+        _unavailable("pdftoppm is not on PATH (apt-get install -y poppler-utils)")
+    import subprocess
+
+    from PIL import Image
+
+    from basisbook.cli import main
+
+    pdf = tmp_path / "handbook.pdf"
+    assert main(["pdf", str(demo_copy), "--out", str(tmp_path / "site"), "--pdf", str(pdf)]) == 0
+    assert pdf.read_bytes().startswith(b"%PDF")
+    subprocess.run(["pdftoppm", "-r", "50", "-png", "-f", "1", "-l", "1", str(pdf), str(tmp_path / "p")], check=True)
+    png = next(tmp_path.glob("p*.png"))
+    ARTIFACTS.mkdir(parents=True, exist_ok=True)
+    shutil.copyfile(png, ARTIFACTS / "pdf-page-1.png")
+    img = Image.open(png).convert("L")
+    w, h = img.size
+    band = 6  # pixels at 50 dpi, about 3 mm inside the paper edge
+    edges = [img.crop((0, 0, w, band)), img.crop((0, h - band, w, h)),
+             img.crop((0, 0, band, h)), img.crop((w - band, 0, w, h))]
+    for e in edges:
+        assert e.getextrema()[0] > 240, "content touches the paper edge"
+    # and the page is not blank: the cover has text
+    assert img.getextrema()[0] < 100

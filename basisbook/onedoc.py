@@ -1,0 +1,54 @@
+"""The one-document view: every page of the handbook in order, for print and PDF.
+
+Built from the pages already rendered: each page's <main> becomes a section,
+its ids get the page's prefix ("stg1--out-x") and links between pages become
+links inside the document, so a printed copy keeps its cross-references.  We
+only rewrite attributes of HTML we generated ourselves (always double-quoted;
+project text is escaped, so it never holds a raw quote).
+"""
+
+from __future__ import annotations
+
+import re
+
+_ID = re.compile(r'\bid="([^"]*)"')
+_HREF = re.compile(r'\bhref="([^"]*)"')
+_URLREF = re.compile(r"url\(#([^)]*)\)")
+
+
+def _prefix(page: str) -> str:
+    return page.removesuffix(".html").replace("/", "__") + "--"
+
+
+def main_of(html: str) -> str:
+    start = html.index("<main>") + len("<main>")
+    return html[start: html.index("</main>")]
+
+
+def localise(body: str, page: str, pages: set[str]) -> str:
+    """Prefix ids and turn links to pages in the document into in-document anchors."""
+    p = _prefix(page)
+    body = _ID.sub(lambda m: f'id="{p}{m.group(1)}"', body)
+    body = _URLREF.sub(lambda m: f"url(#{p}{m.group(1)})", body)
+
+    def href(m: re.Match[str]) -> str:
+        url = m.group(1)
+        if url.startswith("#"):
+            return f'href="#{p}{url[1:]}"'
+        target, _, frag = url.partition("#")
+        if target in pages:
+            q = _prefix(target)
+            return f'href="#{q}{frag}"' if frag else f'href="#{q}top"'
+        return m.group(0)  # source pages, figures, CSV: stay separate files
+
+    return _HREF.sub(href, body)
+
+
+def sections(rendered: dict[str, str], order: list[tuple[str, str]]) -> list[dict[str, str]]:
+    """[(page, title)] -> sections with an anchor, a title and the localised body."""
+    pages = {page for page, _ in order}
+    out = []
+    for page, title in order:
+        body = localise(main_of(rendered[page]), page, pages)
+        out.append({"anchor": f"{_prefix(page)}top", "title": title, "body": body})
+    return out

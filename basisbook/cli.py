@@ -25,6 +25,8 @@ def _parser() -> argparse.ArgumentParser:
     b.add_argument("--out", type=Path, default=Path("site"), help="site folder (default: ./site)")
     c = sub.add_parser("check", help="validate inputs and links, run the calcs, write nothing")
     c.add_argument("project", type=Path, help="project folder (holds project.toml)")
+    c.add_argument("--inputs-only", action="store_true",
+                   help="validate files, units, ranges and links without running the calcs (fastest)")
     a = sub.add_parser("archive", help="freeze the current revision into PROJECT/archive/rev-<id>/")
     a.add_argument("project", type=Path, help="project folder (holds project.toml)")
     v = sub.add_parser("verify", help="prove an archived revision unchanged (exit 1 on any mismatch)")
@@ -47,7 +49,11 @@ def _run(args: argparse.Namespace) -> int:
     if args.command == "check":
         from basisbook.build import check
 
-        runs = check(args.project)
+        runs = check(args.project, run_calcs=not args.inputs_only)
+        if args.inputs_only:
+            print(f"{args.project}: inputs and links valid (calcs not run: `check` without "
+                  "--inputs-only also catches conflicts found while computing)")
+            return 0
         fails = sum(1 for r in runs for c in r.checks if c.verdict == "fails")
         review = sum(1 for r in runs for c in r.checks if c.verdict == "review")
         warnings = sum(len(r.warnings) for r in runs)

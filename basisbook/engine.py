@@ -121,8 +121,19 @@ def _convert_link(value: float | str, unit: str, iv: InputValue) -> float | str:
     return to_unit(f"{value!r} {unit}" if unit else repr(value), iv.unit)
 
 
-def run(project: Project) -> list[CalcRun]:
-    """Run every instance; raise ProjectError for any input problem found on the way."""
+def _cache_key(kind: str, inputs: dict[str, InputValue]) -> str:
+    # repr of floats is exact, and a Record's repr includes its source row
+    return kind + "|" + "|".join(f"{k}={v.value!r}" for k, v in sorted(inputs.items()))
+
+
+def run(project: Project, cache: dict[str, object] | None = None) -> list[CalcRun]:
+    """Run every instance; raise ProjectError for any input problem found on the way.
+
+    ``cache`` (kept by a long-lived process) maps a calc kind and its exact input
+    values to the Result computed before: an unchanged calc is not run again.
+    Entries the run did not use are dropped, so the cache stays small.
+    """
+    used: dict[str, object] = {}
     order = dependency_order(project)
     runs: dict[str, CalcRun] = {}
     problems: list[Problem] = []
@@ -168,8 +179,13 @@ def run(project: Project) -> list[CalcRun]:
         if bad:
             continue
         module = catalog.module(inst.calc)
+        key = _cache_key(inst.calc, inputs)
         try:
-            result = module.compute(Values({k: v.value for k, v in inputs.items()}))
+            if cache is not None and key in cache:
+                result = cache[key]
+            else:
+                result = module.compute(Values({k: v.value for k, v in inputs.items()}))
+            used[key] = result
         except InputConflict as exc:
             name = exc.key
             src = inputs[name].source if name in inputs else Source(inst.file, inst.line)
@@ -188,6 +204,9 @@ def run(project: Project) -> list[CalcRun]:
                 raise RuntimeError(f"{inst.calc}.compute returned {k} = {v}")
         runs[inst.id] = CalcRun(inst, inputs, dict(result.outputs), checks, dict(result.charts),
                                 dict(result.tables), list(result.warnings))
+    if cache is not None:
+        cache.clear()
+        cache.update(used)
     if problems:
         raise ProjectError(problems)
     ordered = [runs[i.id] for i in order]

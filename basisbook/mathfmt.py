@@ -117,7 +117,7 @@ def substitute_values(expression: str, values: dict[str, tuple[float | str, str]
         # unless the expression already brackets it
         before = m.string[: m.start()].rstrip()
         after = m.string[m.end():].lstrip()
-        bracketed = before.endswith(("(", "{")) and after.startswith((")", "}"))
+        bracketed = before.endswith(("(", "{", ",")) and after.startswith((")", "}", ","))
         if not isinstance(v, str) and not bracketed and (v < 0 or unit_latex(unit)):
             return r"\left(" + q + r"\right)"
         return "{" + q + "}"

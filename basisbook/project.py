@@ -26,7 +26,7 @@ from typing import Any
 
 from basisbook import catalog
 from basisbook.errors import Problem, ProjectError
-from basisbook.spec import CalcSpec, Input
+from basisbook.spec import CalcSpec, Input, Record
 from basisbook.tomlpos import key_lines, line_of
 from basisbook.units import UnitProblem, to_unit
 
@@ -344,8 +344,9 @@ def load(root: Path | str) -> Project:
             if inst is not None:
                 instances.append(inst)
                 for iv in inst.inputs.values():
-                    if iv.source.file and iv.source.file != rel and iv.source.file not in files:
-                        files.append(iv.source.file)  # a records file: archived and shown too
+                    if isinstance(iv.value, tuple) and iv.value and isinstance(iv.value[0], Record):
+                        if iv.value[0].source.file not in files:
+                            files.append(iv.value[0].source.file)  # a records file: archived and shown
 
     if out.problems:
         raise ProjectError(out.problems)
@@ -465,9 +466,9 @@ def _load_instance(block: Any, idx: int, rel: str, lines: dict, out: _Collector,
 
             loaded = load_records(decl, raw, root, rel, kl, key, out.problems)
             if loaded is not None:
-                records, file = loaded
-                # the input's source is the records file itself; each record knows its row
-                values[decl.name] = InputValue(decl.name, records, decl.unit, Source(file, 1))
+                records, _file = loaded
+                # the source is the line naming the file; each record knows its own row
+                values[decl.name] = InputValue(decl.name, records, decl.unit, Source(rel, kl))
             continue
         if isinstance(raw, dict) and decl.kind == "table":
             out.add(rel, kl, key, "a table input is written out here, not linked")

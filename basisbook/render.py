@@ -10,8 +10,8 @@ from __future__ import annotations
 
 import html
 import json
+import math
 import os
-import shutil
 from importlib import resources
 from pathlib import Path
 from typing import Any
@@ -185,8 +185,9 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Comparison | No
             inputs.append({
                 "name": decl.name, "symbol": _math(decl.symbol), "meaning": decl.meaning,
                 "value": f"{n} rows", "table": None, "unit": "", "allowed": "",
-                "source": {"kind": "file", "href": f"{source_page(iv.source.file)}",  # type: ignore[arg-type]
-                           "label": iv.source.file, "file": iv.source.file, "line": 1, "file_href": ""},
+                "source": _source_view(iv, "", runs_by_id),
+                "records_file": {"label": iv.value[0].source.file,  # type: ignore[index]
+                                 "href": source_page(iv.value[0].source.file)},  # type: ignore[index]
                 "used_by": [], "mark": _mark(marks, "input", decl.name, since),
             })
             continue
@@ -204,6 +205,7 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Comparison | No
             "used_by": [{"href": f"{iid}.html#in-{name}", "label": f"{iid}.{name}"}
                         for iid, name in run.used_by.get(decl.name, [])],
             "mark": _mark(marks, "input", decl.name, since),
+            "records_file": None,
         })
     steps = []
     for i, s in enumerate(spec.steps, start=1):
@@ -360,8 +362,11 @@ def verification_view() -> dict[str, Any]:
     groups: dict[str, dict[str, Any]] = {}
     for r in run_published_cases():
         g = groups.setdefault(r.kind, {"kind": r.kind, "title": r.title, "rows": []})
-        g["rows"].append({"case": r.case, "source": r.source, "expected": number_text(r.expected),
-                          "computed": number_text(r.computed), "unit": unit_text(r.unit),
+        # as many digits as the tolerance needs, so a 1e-6 agreement is visible
+        scale = max(abs(r.expected), 1e-300)
+        digits = max(4, min(12, 1 + math.ceil(-math.log10(max(r.tolerance, 1e-15) / scale))))
+        g["rows"].append({"case": r.case, "source": r.source, "expected": number_text(r.expected, digits),
+                          "computed": number_text(r.computed, digits), "unit": unit_text(r.unit),
                           "tolerance": "± " + number_text(r.tolerance), "basis": r.basis,
                           "verdict": "agrees" if r.agrees else "DISAGREES"})
     total = sum(len(g["rows"]) for g in groups.values())
@@ -462,30 +467,57 @@ def previous_comparison(project: Project, runs: list[CalcRun]) -> Comparison | N
     return compare(old, new, project.change_tolerance)
 
 
-def _write(path: Path, text: str) -> None:
-    path.parent.mkdir(parents=True, exist_ok=True)
-    path.write_bytes(text.encode("utf-8"))
+class RenderCache:
+    """What a long-lived process (serve) keeps between builds: the Jinja
+    environment and every figure's SVG by a hash of its data."""
+
+    def __init__(self) -> None:
+        self.env: Any = None
+        self.env_root: Path | None = None
+        self.figures: dict[str, str] = {}
+        self.figures_drawn = 0
+        self._used = set()
+
+    def environment(self, project_root: Path) -> Any:
+        if self.env is None or self.env_root != project_root:
+            self.env, self.env_root = environment(project_root), project_root
+        return self.env
+
+    def figure(self, chart: Any, title: str) -> str:
+        key = figures.chart_key(chart) + "|" + title
+        if key not in self.figures:
+            self.figures[key] = figures.render_svg(chart, title)
+            self.figures_drawn += 1
+        self._used.add(key)
+        return self.figures[key]
+
+    def start(self) -> None:
+        self._used: set[str] = set()
+
+    def finish(self) -> None:
+        """Forget figures the last build did not use (memory stays bounded)."""
+        self.figures = {k: v for k, v in self.figures.items() if k in self._used}
 
 
-def render_site(project: Project, runs: list[CalcRun], out: Path,
-                final_out: Path | None = None) -> list[str]:
-    """Write the whole site into ``out`` (an empty directory); return the files written.
+def render_files(project: Project, runs: list[CalcRun], final_out: Path | None = None,
+                 cache: RenderCache | None = None) -> dict[str, bytes]:
+    """Every file of the site as bytes, by relative path (nothing is written here).
 
-    ``final_out`` is where the site will live once swapped in: links to archived
-    revisions are made relative to it.
+    ``final_out`` is where the site will live: links to archived revisions are
+    made relative to it.
     """
-    env = environment(project.root)
+    cache = cache or RenderCache()
+    cache.start()
+    env = cache.environment(project.root)
     cmp = previous_comparison(project, runs)
-    common = common_view(project, runs, final_out if final_out is not None else out, cmp is not None)
+    common = common_view(project, runs, final_out, cmp is not None)
     by_id = {r.id: r for r in runs}
-    written: list[str] = []
-
+    files: dict[str, bytes] = {}
     rendered: dict[str, str] = {}
 
     def page(rel: str, template: str, root: str, **ctx: Any) -> None:
         text = env.get_template(template).render(root=root, page=rel, **common, **ctx)
-        _write(out / rel, text)
-        written.append(rel)
+        files[rel] = text.encode("utf-8")
         rendered[rel] = text
 
     page("index.html", "index.html", "", **index_view(project, runs))
@@ -495,34 +527,24 @@ def render_site(project: Project, runs: list[CalcRun], out: Path,
     if cmp is not None:
         page("changes.html", "changes.html", "", **changes_view(cmp, by_id))
     for r in runs:
-        view = calc_view(r, by_id, cmp)
-        page(f"{r.id}.html", "calc.html", "", calc=view)
+        page(f"{r.id}.html", "calc.html", "", calc=calc_view(r, by_id, cmp))
         for f in r.spec.figures:
             if f.name in r.charts and not isinstance(r.charts[f.name], SingleLine):
-                svg = figures.render_svg(r.charts[f.name], f"{r.instance.title}: {f.title}")
-                _write(out / "fig" / f"{r.id}-{f.name}.svg", svg)
-                written.append(f"fig/{r.id}-{f.name}.svg")
+                svg = cache.figure(r.charts[f.name], f"{r.instance.title}: {f.title}")
+                files[f"fig/{r.id}-{f.name}.svg"] = svg.encode("utf-8")
         for t in r.spec.tables:
             if t.name in r.tables:
-                _write(out / "tables" / f"{r.id}-{t.name}.csv", table_csv(r.tables[t.name]))
-                written.append(f"tables/{r.id}-{t.name}.csv")
-    for rel in project.files:
-        from basisbook.records import display_lines
+                files[f"tables/{r.id}-{t.name}.csv"] = table_csv(r.tables[t.name]).encode("utf-8")
+    from basisbook.records import display_lines
 
+    for rel in project.files:
         lines = [{"n": i, "text": t} for i, t in enumerate(display_lines(project.root / rel), start=1)]
         page(source_page(rel), "source.html", "../", file=rel, lines=lines)
-
-    static = builtin_templates() / "static"
-    for f in sorted(static.iterdir()):
-        if f.is_file():
-            (out / "assets").mkdir(parents=True, exist_ok=True)
-            shutil.copyfile(f, out / "assets" / f.name)
-            written.append(f"assets/{f.name}")
-    override_static = project.root / "templates" / "static"
-    if override_static.is_dir():
-        for f in sorted(override_static.iterdir()):
-            if f.is_file():
-                shutil.copyfile(f, out / "assets" / f.name)
+    for folder in (builtin_templates() / "static", project.root / "templates" / "static"):
+        if folder.is_dir():  # a project's own static files override the built-in ones
+            for f in sorted(folder.iterdir()):
+                if f.is_file():
+                    files[f"assets/{f.name}"] = f.read_bytes()
     # the one-document view, in reading order, for print and PDF
     from basisbook import onedoc
 
@@ -534,13 +556,27 @@ def render_site(project: Project, runs: list[CalcRun], out: Path,
               ("verification.html", "Verification appendix")]
     page("handbook.html", "handbook.html", "", sections=[
         {**sec, "body": Markup(sec["body"])} for sec in onedoc.sections(rendered, order)])
-    _write(out / "assets" / "search-index.js", search_index(runs))
-    written.append("assets/search-index.js")
+    files["assets/search-index.js"] = search_index(runs).encode("utf-8")
     doc = results_document(project, runs)
-    _write(out / "results.json", json.dumps(doc, indent=1, sort_keys=True, ensure_ascii=False) + "\n")
-    written.append("results.json")
-    _write(out / SITE_MARKER, "basisbook site: this folder is replaced on every build\n")
-    return written
+    files["results.json"] = (json.dumps(doc, indent=1, sort_keys=True, ensure_ascii=False) + "\n").encode("utf-8")
+    files[SITE_MARKER] = b"basisbook site: this folder is replaced on every build\n"
+    cache.finish()
+    return files
+
+
+def write_files(files: dict[str, bytes], out: Path) -> None:
+    for rel, data in files.items():
+        path = out / rel
+        path.parent.mkdir(parents=True, exist_ok=True)
+        path.write_bytes(data)
+
+
+def render_site(project: Project, runs: list[CalcRun], out: Path,
+                final_out: Path | None = None) -> list[str]:
+    """Write the whole site into ``out`` (an empty directory); return the files written."""
+    files = render_files(project, runs, final_out if final_out is not None else out)
+    write_files(files, out)
+    return list(files)
 
 
 __all__ = ["render_site", "results_document", "html"]

@@ -27,6 +27,12 @@ def registry() -> Any:
     return ureg
 
 
+# convention: a declared "K" is a temperature difference; absolute temperatures are
+# declared in degC (or "kelvin", which stays absolute)
+_DIFFERENCE_UNITS = {"K", "delta_degC", "delta_degF"}
+_OFFSET_UNITS = {"degree_Celsius", "degree_Fahrenheit"}
+
+
 def _dimensionless(unit: str) -> bool:
     return unit in ("", "pu", "1")
 
@@ -70,6 +76,10 @@ def _parse_string(text: str, unit: str) -> float:
     if not isinstance(q, ureg.Quantity) or not isinstance(q.magnitude, (int, float)):
         raise UnitProblem(f"expected a number with a unit, could not read {text!r}")
     target = "" if _dimensionless(unit) else unit
+    if unit in _DIFFERENCE_UNITS and not q.unitless and str(q.units) in _OFFSET_UNITS:
+        # "5 degC" for a temperature difference would silently become 278.15 K
+        raise UnitProblem(f"{text!r} reads as a temperature on the Celsius/Fahrenheit scale, but a "
+                          f"temperature difference is expected: write it in K (e.g. '{q.magnitude:g} K')")
     try:
         x = q.to(target).magnitude
     except Exception:

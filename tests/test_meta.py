@@ -104,11 +104,15 @@ def test_renderer_knows_no_physics() -> None:
         assert "CoolProp" not in imported
 
 
-def test_check_does_not_pay_for_plotting() -> None:
+@pytest.mark.parametrize(("run_calcs", "forbidden"), [
+    (True, ("matplotlib", "jinja2", "markdown_it", "latex2mathml")),  # a full check renders nothing
+    (False, ("matplotlib", "jinja2", "markdown_it", "latex2mathml", "CoolProp")),  # inputs only
+])
+def test_check_does_not_pay_for_rendering(run_calcs: bool, forbidden: tuple[str, ...]) -> None:
     code = (
-        "import sys; from basisbook.build import check; check(sys.argv[1]);"
-        "heavy = [m for m in ('matplotlib', 'CoolProp', 'jinja2') if m in sys.modules];"
-        "print(heavy); assert not heavy"
+        f"import sys; from basisbook.build import check; check(sys.argv[1], run_calcs={run_calcs});"
+        f"heavy = [m for m in {forbidden!r} if m in sys.modules];"
+        "print(heavy); assert not heavy, heavy"
     )
     subprocess.run([sys.executable, "-c", code, str(ROOT / "project")], check=True)
 

@@ -303,9 +303,10 @@ def test_results_json_gives_every_input_a_value_unit_and_source(built_site: Path
                 target, _, out = src["link"].partition(".")
                 if target == "site":
                     upstream = doc["site"][out]
-                else:
-                    upstream = {"value": doc["instances"][target]["outputs"][out]["value"],
-                                "unit": doc["instances"][target]["outputs"][out]["unit"]}
+                else:  # a link may take an upstream output or an upstream input
+                    up = doc["instances"][target]
+                    side = "outputs" if out in up["outputs"] else "inputs"
+                    upstream = {"value": up[side][out]["value"], "unit": up[side][out]["unit"]}
                 if upstream["unit"] == iv["unit"]:
                     assert iv["value"] == upstream["value"], f"{where}: differs from its link {src['link']}"
             elif src.get("default") is True:
@@ -376,6 +377,7 @@ def test_each_declared_output_has_a_row(built_site: Path) -> None:
 
 def test_each_input_row_links_to_where_its_value_came_from(built_site: Path) -> None:
     kinds_seen = set()
+    doc = json.loads((built_site / "results.json").read_text(encoding="utf-8"))
     for iid, inst in _instances(built_site):
         page = built_site / f"{iid}.html"
         tree = parse(page)
@@ -390,7 +392,11 @@ def test_each_input_row_links_to_where_its_value_came_from(built_site: Path) -> 
             if "link" in src:
                 kinds_seen.add("link")
                 target, _, out = src["link"].partition(".")
-                want = f"index.html#site-{out}" if target == "site" else f"{target}.html#out-{out}"
+                if target == "site":
+                    want = f"index.html#site-{out}"
+                else:
+                    side = "out" if out in doc["instances"][target]["outputs"] else "in"
+                    want = f"{target}.html#{side}-{out}"
                 assert hrefs and hrefs[0] == want, f"{where}: links {hrefs}, expected {want} first"
                 # the link was written somewhere: that line too is linked and holds the key
                 file_links = [h for h in hrefs[1:] if h.startswith("source/")]

@@ -33,6 +33,10 @@ def _parser() -> argparse.ArgumentParser:
     v.add_argument("snapshot", type=Path, help="snapshot folder PROJECT/archive/rev-<id> or its .zip")
     v.add_argument("--rebuild", action="store_true",
                    help="also recompute from the archived inputs and report every result that moved")
+    w = sub.add_parser("serve", help="build, serve on 127.0.0.1 and rebuild on every save")
+    w.add_argument("project", type=Path, help="project folder (holds project.toml)")
+    w.add_argument("--out", type=Path, default=Path("site"), help="site folder (default: ./site)")
+    w.add_argument("--port", type=int, default=8765, help="port on 127.0.0.1 (default: 8765; 0 picks one)")
     f = sub.add_parser("pdf", help="build, then print the one-document view to PDF (headless chromium)")
     f.add_argument("project", type=Path, help="project folder (holds project.toml)")
     f.add_argument("--out", type=Path, default=Path("site"), help="site folder (default: ./site)")
@@ -66,6 +70,10 @@ def _run(args: argparse.Namespace) -> int:
         pages, out = build(args.project, args.out)
         print(f"built {pages} pages into {out}")
         return 0
+    if args.command == "serve":
+        from basisbook.serve import serve
+
+        return serve(args.project, args.out, args.port)
     if args.command == "pdf":
         from basisbook.build import build
         from basisbook.pdf import print_pdf

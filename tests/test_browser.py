@@ -269,3 +269,80 @@ def test_pdf_first_page_has_nothing_cut_off(demo_copy: Path, tmp_path: Path) -> 
         assert e.getextrema()[0] > 240, "content touches the paper edge"
     # and the page is not blank: the cover has text
     assert img.getextrema()[0] < 100
+
+
+# --- the serve loop -------------------------------------------------------------------
+
+@pytest.fixture
+def served(demo_copy: Path, tmp_path: Path) -> Iterator[tuple[str, Path, Path]]:
+    """`basisbook serve` on a free port in its own process; yields (url, project, site)."""
+    import subprocess
+    import sys
+    import time
+
+    root = Path(__file__).resolve().parent.parent
+    site = tmp_path / "served-site"
+    proc = subprocess.Popen([sys.executable, "-u", "-m", "basisbook", "serve", str(demo_copy), "--out", str(site),
+                             "--port", "0"], cwd=root, stdout=subprocess.PIPE, stderr=subprocess.STDOUT, text=True)
+    url = ""
+    deadline = time.monotonic() + 30
+    lines = []
+    while time.monotonic() < deadline and proc.poll() is None:
+        line = proc.stdout.readline()  # type: ignore[union-attr]
+        lines.append(line)
+        m = re.search(r"serving (http://127\.0\.0\.1:\d+/)", line)
+        if m:
+            url = m.group(1)
+            break
+    if not url:
+        proc.kill()
+        pytest.fail("serve did not start: " + "".join(lines))
+    try:
+        yield url, demo_copy, site
+    finally:
+        proc.terminate()
+        try:
+            proc.wait(timeout=10)
+        except subprocess.TimeoutExpired:
+            proc.kill()
+
+
+def test_serve_reloads_the_page_after_an_edit_and_shows_broken_input(browser: Any, served: tuple[str, Path, Path]) -> None:
+    from playwright.sync_api import expect
+
+    url, project, site = served
+    context = browser.new_context(viewport={"width": 1280, "height": 900})
+    outside: list[str] = []
+
+    def route(r: Any) -> None:
+        if r.request.url.startswith(url):
+            r.continue_()
+        else:
+            outside.append(r.request.url)
+            r.abort()
+
+    context.route("**/*", route)
+    pg = context.new_page()
+    errors: list[str] = []
+    pg.on("pageerror", lambda e: errors.append(str(e)))
+    pg.goto(url + "stg1.html")
+    cell = pg.locator("#out-generator_current td.num")
+    expect(cell).to_have_text("820.1")  # 15.625 MVA at 11 kV
+
+    gen = project / "inputs" / "generators.toml"
+    gen.write_text(gen.read_text().replace('generator_active_power = "12.5 MW"', 'generator_active_power = "13 MW"'))
+    # no manual reload: the page's own script notices the new build
+    expect(pg.locator("#out-generator_current td.num")).to_have_text("852.9", timeout=20_000)  # 16.25 MVA / (sqrt3 11 kV)
+
+    gen.write_text(gen.read_text().replace("generator_power_factor = 0.8\n", "generator_power_factor = 1.2\n", 1))
+    banner = pg.locator("#bb-live-problems")
+    expect(banner).to_contain_text("stg1.generator_power_factor", timeout=20_000)
+    expect(pg.locator("#out-generator_current td.num")).to_have_text("852.9")  # last good site stays
+
+    gen.write_text(gen.read_text().replace("generator_power_factor = 1.2\n", "generator_power_factor = 0.8\n", 1))
+    expect(banner).to_have_count(0, timeout=20_000)
+    pg.screenshot(path=str(ARTIFACTS / "serve.png"))
+    assert not errors and not outside, (errors, outside)
+    # the live script is added only while serving, never written into the site
+    assert all("__basisbook" not in p.read_text(encoding="utf-8") for p in site.rglob("*.html"))
+    context.close()

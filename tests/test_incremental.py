@@ -1,0 +1,84 @@
+"""Incremental builds: after any sequence of edits the site is byte-identical to a
+clean build, unchanged calcs are not re-run and unchanged files are not rewritten."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from basisbook.build import Builder, build
+
+GEN = "inputs/generators.toml"
+
+
+def _tree(folder: Path) -> dict[str, bytes]:
+    return {p.relative_to(folder).as_posix(): p.read_bytes() for p in folder.rglob("*") if p.is_file()}
+
+
+def _edit(root: Path, rel: str, old: str, new: str) -> None:
+    p = root / rel
+    text = p.read_text(encoding="utf-8")
+    assert old in text, old
+    p.write_text(text.replace(old, new, 1), encoding="utf-8")
+
+
+def test_sequence_of_edits_matches_clean_builds(demo_copy: Path, tmp_path: Path) -> None:
+    live = tmp_path / "live"
+    builder = Builder(demo_copy, live)
+    first = builder.build()
+    assert first.calcs_reused == 0 and first.files_written > 0
+
+    # nothing changed: nothing re-run, nothing drawn, nothing written
+    again = builder.build()
+    assert (again.calcs_run, again.figures_drawn, again.files_written) == (0, 0, 0)
+
+    edits = [
+        ('generator_active_power = "1560 kW"', 'generator_active_power = "1500 kW"'),  # one calc
+        ('altitude = "145 m"', 'altitude = "300 m"'),                                  # site only
+        ("turns_per_phase = 20", "turns_per_phase = 22"),
+        ('generator_active_power = "1500 kW"', 'generator_active_power = "1560 kW"'),  # back again
+    ]
+    for n, (old, new) in enumerate(edits):
+        rel = "project.toml" if "altitude" in old else GEN
+        _edit(demo_copy, rel, old, new)
+        stats = builder.build()
+        clean = tmp_path / f"clean-{n}"
+        build(demo_copy, clean)
+        assert _tree(live) == _tree(clean), f"after edit {n}: incremental differs from clean"
+        if "kW" in old:
+            assert stats.calcs_run == 1 and stats.calcs_reused >= 1, stats  # only gen2 re-runs
+        if "altitude" in old:
+            assert stats.calcs_run == 0 and stats.figures_drawn == 0, stats  # no calc uses it
+            assert stats.files_written < first.files_written / 3, stats
+
+
+def test_a_removed_instance_removes_its_files(demo_copy: Path, tmp_path: Path) -> None:
+    live = tmp_path / "live"
+    builder = Builder(demo_copy, live)
+    builder.build()
+    assert (live / "gen2.html").is_file()
+    text = (demo_copy / GEN).read_text(encoding="utf-8")
+    (demo_copy / GEN).write_text(text[: text.index("[[instance]]\nid = \"gen2\"")], encoding="utf-8")
+    stats = builder.build()
+    assert not (live / "gen2.html").exists() and not (live / "fig" / "gen2-capability_chart.svg").exists()
+    assert stats.files_removed >= 2
+    clean = tmp_path / "clean"
+    build(demo_copy, clean)
+    assert _tree(live) == _tree(clean)
+
+
+def test_a_broken_edit_keeps_the_last_good_site(demo_copy: Path, tmp_path: Path) -> None:
+    import pytest
+
+    from basisbook.errors import ProjectError
+
+    live = tmp_path / "live"
+    builder = Builder(demo_copy, live)
+    builder.build()
+    before = _tree(live)
+    _edit(demo_copy, GEN, "generator_power_factor = 0.8", "generator_power_factor = 8")
+    with pytest.raises(ProjectError, match="generator_power_factor"):
+        builder.build()
+    assert _tree(live) == before
+    _edit(demo_copy, GEN, "generator_power_factor = 8", "generator_power_factor = 0.8")
+    builder.build()
+    assert _tree(live) == before

@@ -97,6 +97,9 @@ def archive(project_root: Path) -> Path:
     dest_parent = archive_root(root)
     dest = dest_parent / snapshot_name(rev.id)
     zpath = dest_parent / f"{snapshot_name(rev.id)}.zip"
+    strays = sorted(dest_parent.glob(f".{zpath.name}.new-*")) if dest_parent.is_dir() else []
+    if dest.exists() and not zpath.exists() and strays:
+        os.rename(strays[-1], zpath)  # a kill fell between the two renames: finish it
     if dest.exists() or zpath.exists():
         raise ProjectError([Problem("revisions.toml", rev.line, "revision.id",
                                     f"revision {rev.id!r} is already archived at {dest}; an issued "

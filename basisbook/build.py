@@ -49,6 +49,7 @@ def _guard_out(root: Path, out: Path) -> None:
 def build(root: Path, out: Path) -> tuple[int, Path]:
     """Clean build of ``root`` into ``out``; return (page count, out)."""
     out = Path(out).resolve()
+    recover(out)
     _guard_out(root, out)
     proj = project_mod.load(root)
     runs = engine.run(proj)
@@ -65,15 +66,56 @@ def build(root: Path, out: Path) -> tuple[int, Path]:
     return sum(1 for w in files if w.endswith(".html")), out
 
 
+_RENAME_EXCHANGE = 2  # linux/fs.h
+
+
+def _exchange(a: Path, b: Path) -> bool:
+    """Swap two directories in one atomic step (Linux renameat2); False if unsupported."""
+    import ctypes
+    import ctypes.util
+
+    try:
+        libc = ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6", use_errno=True)
+        fn = libc.renameat2
+    except (OSError, AttributeError):
+        return False
+    at_fdcwd = -100
+    rc = fn(at_fdcwd, os.fsencode(a), at_fdcwd, os.fsencode(b), _RENAME_EXCHANGE)
+    return rc == 0
+
+
 def _swap(new: Path, out: Path) -> None:
-    old = None
-    if out.exists():
-        old = Path(tempfile.mkdtemp(prefix=f".{out.name}.old-", dir=out.parent))
-        os.rmdir(old)
-        os.rename(out, old)
+    """Put the complete ``new`` folder in place of ``out``.
+
+    With renameat2 the exchange is atomic: a reader (or a kill) sees either the
+    old or the new site, never neither.  Elsewhere two renames leave a short
+    window, which the next build repairs (``recover``).
+    """
+    if not out.exists():
+        os.rename(new, out)
+        return
+    if _exchange(new, out):
+        shutil.rmtree(new, ignore_errors=True)  # ``new`` now holds the old site
+        return
+    old = Path(tempfile.mkdtemp(prefix=f".{out.name}.old-", dir=out.parent))
+    os.rmdir(old)
+    os.rename(out, old)
     os.rename(new, out)
-    if old is not None:
-        shutil.rmtree(old, ignore_errors=True)
+    shutil.rmtree(old, ignore_errors=True)
+
+
+def recover(out: Path) -> None:
+    """Tidy what an interrupted build left beside ``out``: finish an interrupted
+    two-rename swap, and remove half-written temporary folders."""
+    parent = out.parent
+    if not parent.is_dir():
+        return
+    olds = sorted(parent.glob(f".{out.name}.old-*"))
+    if not out.exists() and olds and (olds[-1] / SITE_MARKER).exists():
+        os.rename(olds[-1], out)  # the swap was cut between its two renames
+        olds = olds[:-1]
+    for stale in olds + sorted(parent.glob(f".{out.name}.new-*")):
+        shutil.rmtree(stale, ignore_errors=True)
 
 
 @dataclass

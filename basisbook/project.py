@@ -30,6 +30,7 @@ from basisbook.spec import CalcSpec, Input, Record
 from basisbook.tomlpos import key_lines, line_of
 from basisbook.units import UnitProblem, to_unit
 
+MAX_TOML_BYTES = 2 * 1024 * 1024
 INSTANCE_ID = re.compile(r"^[a-z][a-z0-9_-]{0,39}$")
 RESERVED_IDS = {"index", "site", "project", "results", "glossary", "source", "assets"}
 PURPOSES = (
@@ -145,6 +146,10 @@ def _suggest(word: str, options: list[str] | tuple[str, ...]) -> str:
 
 def _read_toml(path: Path, rel: str, out: _Collector) -> tuple[dict[str, Any], dict] | None:
     try:
+        if path.stat().st_size > MAX_TOML_BYTES:
+            out.add(rel, None, "", f"is {path.stat().st_size // 1024} KiB; an input file is expected "
+                    f"to be under {MAX_TOML_BYTES // 1024} KiB (is this the right file?)")
+            return None
         raw = path.read_bytes()
     except OSError as exc:
         out.add(rel, None, "", f"cannot read the file ({exc.strerror})")
@@ -338,6 +343,9 @@ def load(root: Path | str) -> Project:
         blocks = data.get("instance", [])
         if not isinstance(blocks, list):
             out.add(rel, line_of(lines, ("instance",)), "instance", "expected [[instance]] tables")
+            continue
+        if not blocks:
+            out.add(rel, None, "", "holds no [[instance]] table (an empty file?); remove it or add one")
             continue
         for idx, block in enumerate(blocks):
             inst = _load_instance(block, idx, rel, lines, out, seen, root)

@@ -57,12 +57,29 @@ def environment(project_root: Path) -> Any:
     )
 
 
-def markdown(text: str) -> Markup:
-    from markdown_it import MarkdownIt
+_MD: Any = None
 
-    # raw HTML off: project text can never inject markup
-    md = MarkdownIt("commonmark", {"html": False, "linkify": False})
-    return Markup(md.render(text or ""))
+
+def _safe_link(url: str) -> bool:
+    """Links in project notes may only point inside the handbook: an anchor or a
+    relative page, never a scheme (http:, javascript:, file:), an absolute path or '..'."""
+    import re
+
+    u = url.strip()
+    if not u or u.startswith(("/", "\\")) or re.match(r"^[A-Za-z][A-Za-z0-9+.-]*:", u):
+        return False
+    return ".." not in u.replace("\\", "/").split("/")
+
+
+def markdown(text: str) -> Markup:
+    global _MD
+    if _MD is None:
+        from markdown_it import MarkdownIt
+
+        # raw HTML off: project text can never inject markup; links stay inside the site
+        _MD = MarkdownIt("commonmark", {"html": False, "linkify": False})
+        _MD.validateLink = _safe_link
+    return Markup(_MD.render(text or ""))
 
 
 def source_page(rel: str) -> str:

@@ -177,3 +177,37 @@ def test_sixty_hertz_variant(tmp_path: Path) -> None:
     assert doc["instances"]["stg1"]["outputs"]["synchronous_speed"]["value"] == pytest.approx(3600.0)
     assert doc["instances"]["gen2"]["outputs"]["synchronous_speed"]["value"] == pytest.approx(1800.0)
     assert doc["instances"]["stg1"]["outputs"]["electrical_period"]["value"] == pytest.approx(1000 / 60)
+
+
+# --- hostile or odd project text ------------------------------------------------------
+
+@pytest.mark.parametrize(
+    ("text", "kept_as_link"),
+    [("[a](javascript:alert(1))", False), ("[b](../../etc/passwd)", False), ("[c](https://cdn.example/x)", False),
+     ("[d](file:///etc/passwd)", False), ("![e](http://example/x.png)", False), ("[f](/etc/passwd)", False),
+     ("[g](stg1.html#out-x)", True), ("[h](#site)", True)],
+)
+def test_note_links_stay_inside_the_handbook(text: str, kept_as_link: bool) -> None:
+    from basisbook.render import markdown
+
+    html = str(markdown(text))
+    assert ("<a " in html or "<img" in html) == kept_as_link, html
+
+
+def test_empty_and_oversized_input_files(demo_copy: Path) -> None:
+    (demo_copy / "inputs" / "empty.toml").write_text("")
+    (demo_copy / "inputs" / "huge.toml").write_text("# " + "x" * (3 * 1024 * 1024))
+    with pytest.raises(ProjectError) as exc:
+        load(demo_copy)
+    text = str(exc.value)
+    assert "inputs/empty.toml: holds no [[instance]] table" in text
+    assert "inputs/huge.toml: is 3072 KiB" in text
+
+
+def test_symlinked_input_file_outside_the_project_is_refused(demo_copy: Path, tmp_path: Path) -> None:
+    outside = tmp_path / "elsewhere.toml"
+    outside.write_text((demo_copy / "inputs" / "generators.toml").read_text().replace('"stg1"', '"stg9"')
+                       .replace('"gen2"', '"gen9"'))
+    (demo_copy / "inputs" / "linked.toml").symlink_to(outside)
+    with pytest.raises(ProjectError, match="inputs/linked.toml: is a link to a file outside the project folder"):
+        load(demo_copy)

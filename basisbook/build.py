@@ -121,6 +121,7 @@ def recover(out: Path) -> None:
 @dataclass
 class BuildStats:
     pages: int
+    rerun: list[str]
     calcs_run: int
     calcs_reused: int
     figures_drawn: int
@@ -142,12 +143,12 @@ class Builder:
         proj = project_mod.load(self.root)  # raises ProjectError: nothing written
         before = set(self.compute_cache)
         runs = engine.run(proj, self.compute_cache)
-        reused = len(before & set(self.compute_cache))
+        rerun = [r.id for r in runs if r.cache_key not in before]
         drawn = self.render_cache.figures_drawn
         files = render_files(proj, runs, self.out, self.render_cache)
         written, removed = sync(files, self.out)
-        return BuildStats(sum(1 for f in files if f.endswith(".html")), len(runs) - reused, reused,
-                          self.render_cache.figures_drawn - drawn, written, removed)
+        return BuildStats(sum(1 for f in files if f.endswith(".html")), rerun, len(rerun),
+                          len(runs) - len(rerun), self.render_cache.figures_drawn - drawn, written, removed)
 
 
 def sync(files: dict[str, bytes], out: Path) -> tuple[int, int]:

@@ -68,6 +68,8 @@ def compare(old: dict[str, Any], new: dict[str, Any], tolerance: float) -> Compa
     for iid in [i for i in ni if i in oi]:  # the new revision's order
         a, b = oi[iid], ni[iid]
         for name in b["inputs"]:
+            if "link" in b["inputs"][name].get("source", {}):
+                continue  # a linked value is a consequence; the upstream change is reported
             if name not in a["inputs"]:
                 add(Change("input", iid, name, None, b["inputs"][name]["value"], b["inputs"][name]["unit"], "added"))
                 continue

@@ -26,6 +26,7 @@ class CalcRun:
     tables: dict[str, Table]
     warnings: list[str]
     used_by: dict[str, list[tuple[str, str]]] = field(default_factory=dict)
+    cache_key: str = ""
 
     @property
     def id(self) -> str:
@@ -203,7 +204,7 @@ def run(project: Project, cache: dict[str, object] | None = None) -> list[CalcRu
             if isinstance(v, float) and not math.isfinite(v):
                 raise RuntimeError(f"{inst.calc}.compute returned {k} = {v}")
         runs[inst.id] = CalcRun(inst, inputs, dict(result.outputs), checks, dict(result.charts),
-                                dict(result.tables), list(result.warnings))
+                                dict(result.tables), list(result.warnings), cache_key=key)
     if cache is not None:
         cache.clear()
         cache.update(used)

@@ -79,12 +79,16 @@ def _render_energy_flow(flow: EnergyFlow, title: str) -> str:
         ax = fig.add_subplot(1, 1, 1)
         ax.set_axis_off()
         ax.set_title(title, fontsize=10, parse_math=False)
-        # left: inflows stacked top-down
+        # left: inflows stacked top-down; labels kept apart like the outflow labels
         y = total_in
+        last_in_y = float("inf")
         for i, (label, v) in enumerate(flow.inflows):
             ax.add_patch(Rectangle((0.0, y - v), 0.06, v, facecolor=_COLOURS[i % len(_COLOURS)],
                                    edgecolor="black", linewidth=0.6))
-            ax.text(-0.02, y - v / 2, f"{label}\n{number_text(v)} {u}", ha="right", va="center", fontsize=8, parse_math=False)
+            ly = min(y - v / 2, last_in_y - 0.09 * total_in)
+            last_in_y = ly
+            ax.text(-0.02, ly, f"{label}\n{number_text(v)} {u}", ha="right", va="center", fontsize=8,
+                    parse_math=False)
             y -= v
         # right: outflows stacked top-down with gaps; bands from the left bar
         left_top = total_in
@@ -113,7 +117,7 @@ def _render_energy_flow(flow: EnergyFlow, title: str) -> str:
             left_top -= v
             right_top -= v + gap
         ax.set_xlim(-0.45, 1.45)
-        ax.set_ylim(min(right_top, last_label_y) - 0.05 * total_in, total_in * 1.08)
+        ax.set_ylim(min(right_top, last_label_y, last_in_y) - 0.05 * total_in, total_in * 1.08)
         return _svg(fig)
 
 

@@ -106,6 +106,11 @@ def _source_view(iv: InputValue, root: str, runs_by_id: dict[str, CalcRun] | Non
             "label": f"{s.file}:{s.line}", "file": s.file, "line": s.line, "file_href": ""}
 
 
+def _cite(citation: str, locator: str) -> str:
+    """'Book, 5th ed., 2012' + 'eq. 4-1' without a doubled full stop."""
+    return f"{citation.rstrip().rstrip('.')}, {locator}" if locator else citation
+
+
 def _cell(v: Any) -> dict[str, Any]:
     """A result-table cell: numbers formatted, a source row as a link to its line."""
     if isinstance(v, SourceRow):
@@ -233,7 +238,7 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Comparison | No
             "symbolic": _math(lhs + " = " + substitute(s.expression, symbols), True),
             "numeric": _math(lhs + " = " + substitute_values(s.expression, values), True),
             "result": _math(lhs + " = " + quantity_latex(run.outputs[s.output], units[s.output]), True),
-            "source": ref.citation, "source_key": ref.key, "locator": s.locator, "note": s.note,
+            "source": _cite(ref.citation, s.locator), "source_key": ref.key, "locator": "", "note": s.note,
         })
     stepped = {s.output for s in spec.steps}
     outputs = []
@@ -255,7 +260,7 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Comparison | No
             "id": c.check.id, "criterion": c.check.criterion,
             "value": number_text(c.value), "relation": c.check.relation,
             "limit": number_text(c.limit), "unit": unit_text(unit), "verdict": c.verdict,
-            "source": refs[c.check.source].citation, "locator": c.check.locator,
+            "source": _cite(refs[c.check.source].citation, c.check.locator), "locator": "",
             "value_href": f"#step-{c.check.value}" if c.check.value in stepped else f"#out-{c.check.value}",
             "mark": _mark(marks, "check", c.check.id, since),
         })

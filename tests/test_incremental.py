@@ -29,7 +29,8 @@ def test_sequence_of_edits_matches_clean_builds(demo_copy: Path, tmp_path: Path)
 
     # nothing changed: nothing re-run, nothing drawn, nothing written
     again = builder.build()
-    assert (again.calcs_run, again.figures_drawn, again.files_written) == (0, 0, 0)
+    assert (again.calcs_run, again.figures_drawn, again.files_written) == (0, 0, 0), again
+    assert again.rerun == []
 
     edits = [
         ('generator_active_power = "1560 kW"', 'generator_active_power = "1500 kW"'),  # one calc
@@ -44,23 +45,28 @@ def test_sequence_of_edits_matches_clean_builds(demo_copy: Path, tmp_path: Path)
         clean = tmp_path / f"clean-{n}"
         build(demo_copy, clean)
         assert _tree(live) == _tree(clean), f"after edit {n}: incremental differs from clean"
-        if "kW" in old:
-            assert stats.calcs_run == 1 and stats.calcs_reused >= 1, stats  # only gen2 re-runs
-        if "altitude" in old:
-            assert stats.calcs_run == 0 and stats.figures_drawn == 0, stats  # no calc uses it
-            assert stats.files_written < first.files_written / 3, stats
+        if "kW" in old:  # gen2 and what it feeds re-run; the steam unit does not
+            assert "gen2" in stats.rerun and "stg1" not in stats.rerun and stats.calcs_reused >= 1, stats
+        if "turns_per_phase" in old:
+            assert "stg1" in stats.rerun and "gen2" not in stats.rerun, stats
+        if "altitude" in old:  # only calcs linked to the altitude re-run; most files stay as they are
+            assert "stg1" not in stats.rerun and "gen2" not in stats.rerun, stats
+            assert stats.files_written < first.files_written / 2, stats
 
 
 def test_a_removed_instance_removes_its_files(demo_copy: Path, tmp_path: Path) -> None:
+    # a spare generator in a file of its own, then the file is deleted
+    text = (demo_copy / GEN).read_text(encoding="utf-8")
+    block = text[text.index("[[instance]]"): text.index("[[instance]]", text.index("[[instance]]") + 1)]
+    (demo_copy / "inputs" / "spare.toml").write_text(block.replace('id = "stg1"', 'id = "spare3"'), encoding="utf-8")
     live = tmp_path / "live"
     builder = Builder(demo_copy, live)
     builder.build()
-    assert (live / "gen2.html").is_file()
-    text = (demo_copy / GEN).read_text(encoding="utf-8")
-    (demo_copy / GEN).write_text(text[: text.index("[[instance]]\nid = \"gen2\"")], encoding="utf-8")
+    assert (live / "spare3.html").is_file()
+    (demo_copy / "inputs" / "spare.toml").unlink()
     stats = builder.build()
-    assert not (live / "gen2.html").exists() and not (live / "fig" / "gen2-capability_chart.svg").exists()
-    assert stats.files_removed >= 2
+    assert not (live / "spare3.html").exists() and not (live / "fig" / "spare3-capability_chart.svg").exists()
+    assert stats.files_removed >= 2 and stats.rerun == [], stats
     clean = tmp_path / "clean"
     build(demo_copy, clean)
     assert _tree(live) == _tree(clean)

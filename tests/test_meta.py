@@ -73,7 +73,7 @@ def test_glossary_units_parse() -> None:
 
     ureg = registry()
     for name, term in GLOSSARY.items():
-        if term.unit in ("", "text", "table"):
+        if term.unit in ("", "text", "table", "records"):
             continue
         ureg.Quantity(1, term.unit)  # raises if the unit is unknown
         assert term.symbol, name
@@ -138,3 +138,12 @@ def test_missing_template_variable_is_an_error(tmp_path: Path) -> None:
     env = environment(tmp_path)
     with pytest.raises(jinja2.UndefinedError, match="calc"):
         env.get_template("calc.html").render(root="", page="x")
+
+
+def test_glossary_declares_each_name_once() -> None:
+    # a repeated key in a dict literal silently replaces the first meaning (and unit)
+    tree = ast.parse((ROOT / "calcs" / "glossary.py").read_text(encoding="utf-8"))
+    keys = [k.value for node in ast.walk(tree) if isinstance(node, ast.Dict)
+            for k in node.keys if isinstance(k, ast.Constant)]
+    repeated = sorted({k for k in keys if keys.count(k) > 1})
+    assert not repeated, f"glossary names declared twice: {repeated}"

@@ -375,6 +375,12 @@ def test_each_declared_output_has_a_row(built_site: Path) -> None:
         assert not missing, f"{iid}.html: no results row for {missing}"
 
 
+def _downstream(doc: dict, iid: str, name: str) -> list[tuple[str, str]]:
+    """Inputs of other instances linked to this instance's input ``name``."""
+    return [(other, n) for other, inst in doc["instances"].items() for n, iv in inst["inputs"].items()
+            if iv["source"].get("link") == f"{iid}.{name}"]
+
+
 def test_each_input_row_links_to_where_its_value_came_from(built_site: Path) -> None:
     kinds_seen = set()
     doc = json.loads((built_site / "results.json").read_text(encoding="utf-8"))
@@ -386,7 +392,9 @@ def test_each_input_row_links_to_where_its_value_came_from(built_site: Path) -> 
             assert row is not None, f"{iid}.html: no row for input {name}"
             cells = row.find_all("td", "source")
             assert len(cells) == 1, f"{iid}.html#in-{name}: {len(cells)} source cells"
-            hrefs = links_in(cells[0])
+            # "shared with" links name downstream users of this input; they are not its source
+            hrefs = [h for h in links_in(cells[0]) if not any(
+                h == f"{u}.html#in-{n}" for u, n in _downstream(doc, iid, name))]
             src = iv["source"]
             where = f"{iid}.html#in-{name}"
             if "link" in src:

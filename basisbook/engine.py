@@ -192,17 +192,26 @@ def run(project: Project, cache: dict[str, object] | None = None) -> list[CalcRu
             src = inputs[name].source if name in inputs else Source(inst.file, inst.line)
             problems.append(Problem(inst.file, src.line or inst.line, f"{inst.id}.{name}", exc.message))
             continue
+        except ArithmeticError as exc:
+            # a safety net, not a design: values at the far edge of their ranges can overflow or
+            # divide by zero; the user gets a clean message instead of a traceback
+            problems.append(Problem(inst.file, inst.line, inst.id, f"the inputs of {inst.id} lead to "
+                                    f"{type(exc).__name__} ({exc}) in {inst.calc}; check values near the "
+                                    "limits of their ranges"))
+            continue
         missing = [o for o in spec.output_names if o not in result.outputs]
         if missing:
             raise RuntimeError(f"{inst.calc}.compute did not return {missing}")  # a bug, not input
+        bad = sorted(k for k, v in result.outputs.items() if isinstance(v, float) and not math.isfinite(v))
+        if bad:
+            problems.append(Problem(inst.file, inst.line, inst.id, f"the inputs of {inst.id} give no finite "
+                                    f"value for {', '.join(bad)}; check values near the limits of their ranges"))
+            continue
         checks = []
         known = {**{k: v.value for k, v in inputs.items()}, **result.outputs}
         for c in spec.checks:
             limit = known[c.limit] if isinstance(c.limit, str) else c.limit
             checks.append(evaluate_check(c, float(result.outputs[c.value]), float(limit)))
-        for k, v in result.outputs.items():
-            if isinstance(v, float) and not math.isfinite(v):
-                raise RuntimeError(f"{inst.calc}.compute returned {k} = {v}")
         runs[inst.id] = CalcRun(inst, inputs, dict(result.outputs), checks, dict(result.charts),
                                 dict(result.tables), list(result.warnings), cache_key=key)
     if cache is not None:

@@ -47,9 +47,14 @@ def unit_latex(unit: str) -> str:
 
 
 def number_text(x: float | str, digits: int = SIGNIFICANT) -> str:
-    """Four significant figures, no exponent for everyday magnitudes."""
+    """Four significant figures, no exponent for everyday magnitudes; a true minus
+    sign (U+2212), as the equations show it."""
     if isinstance(x, str):
         return x
+    return _plain_number(x, digits).replace("-", "\u2212")
+
+
+def _plain_number(x: float, digits: int) -> str:
     if x == 0:
         return "0"
     if not math.isfinite(x):
@@ -68,7 +73,7 @@ def number_text(x: float | str, digits: int = SIGNIFICANT) -> str:
 def number_latex(x: float | str) -> str:
     if isinstance(x, str):
         return r"\text{" + x + "}"
-    t = number_text(x)
+    t = _plain_number(x, SIGNIFICANT)
     if "×10" in t:
         m, e = f"{x:.{SIGNIFICANT - 1}e}".split("e")
         return f"{m} \\times 10^{{{int(e)}}}"

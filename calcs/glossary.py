@@ -656,7 +656,8 @@ GLOSSARY: dict[str, Term] = {
     ),
     "negative_ceiling_voltage": Term(
         r"U_\mathrm{fc}^{-}",
-        "negative field voltage in inverter operation at the inverter firing-angle limit and rated-load current",
+        "magnitude of the negative field voltage in inverter operation (de-excitation) at the inverter "
+        "firing-angle limit and rated-load current",
         "V",
     ),
     "bridge_ac_current": Term(
@@ -665,6 +666,11 @@ GLOSSARY: dict[str, Term] = {
         r"S_\mathrm{ET,req}", "apparent power the excitation transformer must carry continuously", "kVA"),
     "excitation_transformer_loading": Term(
         r"\lambda_\mathrm{ET}", "continuous loading of the excitation transformer in percent of its rating", "%"),
+    "exciter_ceiling_per_unit": Term(
+        r"e_\mathrm{fd,max}",
+        "upper limit of the exciter output in pu of the air-gap field voltage (regulator ceiling)",
+        "pu",
+    ),
     "voltage_rise_time": Term(
         r"t_\mathrm{r}", "10-90 % rise time of the terminal voltage after the reference step (open circuit)", "s"),
     "voltage_overshoot": Term(

@@ -279,23 +279,28 @@ SPEC = CalcSpec(
         "and prime-mover limits."
     ),
     inputs=[
-        Input("generator_active_power", range="(0, 2000]"),
-        Input("generator_power_factor", range="(0, 1]",
-              note="lagging (over-excited); 1 for unity power factor"),
-        Input("generator_voltage", range="(0, 30]"),
+        Input("generator_active_power", range="[0.01, 2000]"),
+        Input("generator_power_factor", range="[0.5, 1]",
+              note="lagging (over-excited); 1 for unity power factor; rated values lie "
+                   "between about 0.7 and 1 (a lower one is a synchronous condenser's duty)"),
+        Input("generator_voltage", range="[0.1, 30]"),
         Input("rated_frequency", range="[10, 400]", note="50 or 60 Hz in public grids"),
-        Input("prime_mover_speed", range="(0, 10000]",
-              note="speed of the generator shaft, i.e. after any gearbox"),
-        Input("prime_mover_rating", range="(0, 2000]"),
+        Input("prime_mover_speed", range="[50, 10000]",
+              note="speed of the generator shaft, i.e. after any gearbox; "
+                   "the slowest large hydro generators run at about 60 rpm"),
+        Input("prime_mover_rating", range="[0.01, 2000]"),
         Input("rotor_type", default="cylindrical", choices=("cylindrical", "salient")),
-        Input("direct_axis_reactance", range="(0, 10]",
-              note="as defined and tested in IEC 60034-4-1:2018; saturated value for steady-state work"),
+        Input("direct_axis_reactance", range="[0.1, 10]",
+              note="as defined and tested in IEC 60034-4-1:2018; saturated value for steady-state "
+                   "work (real machines: about 0.6 to 3 pu)"),
         Input("quadrature_axis_reactance", range="[0, 10]", default=0.0,
               note="IEC 60034-4-1:2018; needed for a salient-pole rotor; 0 means 'take x_q = x_d'"),
         Input("armature_resistance", range="[0, 0.1]", default=0.0,
               note="IEC 60034-4-1:2018 (d.c. resistance corrected to operating temperature)"),
-        Input("turns_per_phase", range="(0, 10000]"),
-        Input("winding_factor", range="(0, 1]"),
+        Input("turns_per_phase", range="[1, 5000]",
+              note="series turns per phase; a few for large machines, a few thousand for small ones"),
+        Input("winding_factor", range="[0.5, 1]",
+              note="distribution x pitch factor; practical windings lie between about 0.8 and 0.97"),
         Input("stability_margin", range="[0, 0.5]", default=0.10,
               note="common practice 0.10 pu of rated apparent power"),
         Input("load_angle_limit", range="(0, 90]", default=70.0, note="common practice"),
@@ -502,6 +507,10 @@ def compute(v: Values) -> Result:
         if x_q_in == 0.0:
             raise InputConflict("quadrature_axis_reactance",
                                 "a salient-pole rotor needs x_q (typically 0.5-0.7 x_d); 0 was given")
+        if x_q_in < 0.1:
+            raise InputConflict("quadrature_axis_reactance",
+                                f"x_q = {x_q_in:g} pu is below 0.1 pu, no salient-pole machine has "
+                                "so small a synchronous reactance (0 means 'take x_q = x_d')")
         if x_q_in > x_d:
             raise InputConflict("quadrature_axis_reactance",
                                 f"x_q = {x_q_in:g} pu exceeds x_d = {x_d:g} pu; a salient-pole rotor "

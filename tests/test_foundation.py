@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import json
 import math
+import re
 from pathlib import Path
 
 import pytest
@@ -118,7 +119,7 @@ def test_key_lines_tracks_arrays_of_tables_multiline_values_and_inline_tables() 
 @pytest.mark.parametrize(
     ("x", "text"),
     [(820.0984, "820.1"), (0.8, "0.8000"), (2.0, "2"), (3000.0, "3000"), (15.625, "15.62"),
-     (-18.0, "-18"), (1.234e-5, "1.234×10⁻⁵"), (2.5e7, "2.500×10⁷"), (0.0, "0")],
+     (-18.0, "\u221218"), (1.234e-5, "1.234×10⁻⁵"), (2.5e7, "2.500×10⁷"), (0.0, "0")],
 )
 def test_number_text_four_significant_figures(x: float, text: str) -> None:
     assert number_text(x) == text
@@ -211,3 +212,16 @@ def test_symlinked_input_file_outside_the_project_is_refused(demo_copy: Path, tm
     (demo_copy / "inputs" / "linked.toml").symlink_to(outside)
     with pytest.raises(ProjectError, match="inputs/linked.toml: is a link to a file outside the project folder"):
         load(demo_copy)
+
+
+def test_values_at_the_far_edge_of_a_range_give_a_message_not_a_traceback(demo_copy: Path, capsys) -> None:
+    # 1e-320 is inside (0, 1] but makes the flux per pole overflow: a clean exit 2, never a traceback
+    from basisbook.cli import main
+
+    p = demo_copy / "inputs" / "generators.toml"
+    p.write_text(p.read_text().replace("winding_factor = 0.915", "winding_factor = 1e-320"))
+    assert main(["check", str(demo_copy)]) == 2
+    err = capsys.readouterr().err
+    assert "Traceback" not in err
+    assert re.search(r"inputs/generators\.toml:\d+: \[stg1\] the inputs of stg1 (give no finite value for .*flux_per_pole"
+                     r"|lead to \w+Error)", err), err

@@ -403,7 +403,9 @@ def _load_revisions(root: Path, out: _Collector, files: list[str]) -> list[Revis
                 v = _text(v, rel, kl, f"revision.{k}", out)
             else:
                 if v is None or v == "":
-                    out.add(rel, line, f"revision.{k}", f"missing: each revision states its {k}")
+                    what = {"prepared": "who prepared it", "checked": "who checked it",
+                            "approved": "who approved it"}.get(k, f"its {k}")
+                    out.add(rel, line, f"revision.{k}", f"missing: each revision states {what}")
                 v = _text(v, rel, kl, f"revision.{k}", out)
             vals[k] = v
         if vals["purpose"] and vals["purpose"] not in PURPOSES:

@@ -128,7 +128,7 @@ def _convert(decl: Input, rows: list[tuple[int, list[Any]]], rel: str,
             problems.append(Problem(rel, head_line, f.key, f"missing column: {f.meaning}"))
     data = body[1:]
     if len(data) < decl.min_rows:
-        problems.append(Problem(rel, head_line, "", f"expected at least {decl.min_rows} data rows, got {len(data)}"))
+        problems.append(Problem(rel, head_line, "", f"expected at least {decl.min_rows} data row{'s' if decl.min_rows != 1 else ''}, got {len(data)}"))
     seen: dict[str, dict[Any, int]] = {f.key: {} for f in decl.fields if f.unique}
     records = []
     for line, cells in data:

@@ -33,6 +33,12 @@ _DIFFERENCE_UNITS = {"K", "delta_degC", "delta_degF"}
 _OFFSET_UNITS = {"degree_Celsius", "degree_Fahrenheit"}
 
 
+def _want(unit: str) -> str:
+    if _dimensionless(unit):
+        return "a plain number" + (" (per unit)" if unit == "pu" else "")
+    return f"a number in {unit} or a number with its unit (like '3 {unit}')"
+
+
 def _dimensionless(unit: str) -> bool:
     return unit in ("", "pu", "1")
 
@@ -44,14 +50,13 @@ def to_unit(value: Any, unit: str) -> float:
     Raises UnitProblem with a message naming what was expected.
     """
     if isinstance(value, bool):
-        raise UnitProblem(f"expected a number in {unit or 'no unit'}, got a true/false value")
+        raise UnitProblem(f"expected {_want(unit)}, got a true/false value")
     if isinstance(value, (int, float)):
         x = float(value)
     elif isinstance(value, str):
         x = _parse_string(value, unit)
     else:
-        raise UnitProblem(f"expected a number in {unit or 'no unit'} or a string with a unit, "
-                          f"got {type(value).__name__}")
+        raise UnitProblem(f"expected {_want(unit)}, got {type(value).__name__}")
     if not math.isfinite(x):
         raise UnitProblem(f"expected a finite number, got {value!r}")
     return x
@@ -69,10 +74,8 @@ def _parse_string(text: str, unit: str) -> float:
     try:
         q = ureg.Quantity(s)
     except Exception as exc:  # pint raises several types for unparsable text
-        raise UnitProblem(
-            f"expected a number with a unit of {unit or 'no unit'} (like '11 kV'), "
-            f"could not read {text!r} ({type(exc).__name__})"
-        ) from None
+        why = str(exc).replace(" in the unit registry", " as a unit") if "not defined" in str(exc) else "not a number"
+        raise UnitProblem(f"expected {_want(unit)}, could not read {text!r} ({why})") from None
     if not isinstance(q, ureg.Quantity) or not isinstance(q.magnitude, (int, float)):
         raise UnitProblem(f"expected a number with a unit, could not read {text!r}")
     target = "" if _dimensionless(unit) else unit
@@ -107,6 +110,11 @@ _KINDS = {
     "[mass] * [length] ** 2 / [time] ** 2 / [current]": "a magnetic flux",
     "[mass] * [length] ** 2 / [time] ** 3 / [current] ** 2": "a resistance",
     "dimensionless": "a plain number",
+    "[length] ** 3 / [time]": "a volume flow",
+    "[length] ** 3": "a volume",
+    "[mass] / [length] ** 3": "a density",
+    "[length] / [time]": "a speed",
+    "[length] ** 2": "an area",
 }
 
 

@@ -146,7 +146,7 @@ def test_empty_load_list_exit_2(demo_copy: Path, capsys) -> None:
     header = [s for s in p.read_text(encoding="utf-8").splitlines() if s.startswith("tag,")][0]
     p.write_text("# invented, emptied\n" + header + "\n", encoding="utf-8")
     assert main(["check", str(demo_copy)]) == 2
-    assert "expected at least 1 data rows, got 0" in capsys.readouterr().err
+    assert "expected at least 1 data row, got 0" in capsys.readouterr().err
 
 
 def test_xlsx_list_of_the_demo_reads(demo_copy: Path) -> None:

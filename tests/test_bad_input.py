@@ -31,67 +31,55 @@ def _line_of(root: Path, rel: str, needle: str) -> int:
     return hits[-1]
 
 
-# (id, file, old text, new text, expected message pattern, line needle or None)
-CASES = [
-    ("malformed-toml", GEN, 'generator_voltage = "11 kV"', 'generator_voltage = "11 kV', r"not valid TOML", 'generator_voltage = "11 kV'),
-    ("unknown-key-suggests", GEN, "prime_mover_speed = \"3000 rpm\"", "prime_mover_sped = \"3000 rpm\"",
-     r"\[stg1\.prime_mover_sped\] unknown input for synchronous_generator; did you mean 'prime_mover_speed'", "prime_mover_sped"),
-    ("missing-input", GEN, 'generator_voltage = "11 kV"\n', "",
-     r"\[stg1\.generator_voltage\] missing input: expected rated line-to-line terminal voltage", None),
-    ("wrong-dimension", GEN, '"11 kV"', '"11 kg"', r"\[stg1\.generator_voltage\] wrong dimension: '11 kg' is a mass, expected a voltage in kV", "11 kg"),
-    ("power-factor-above-one", GEN, "generator_power_factor = 0.8", "generator_power_factor = 1.2",
-     r"\[stg1\.generator_power_factor\] out of range: 1\.2 given, allowed \(0, 1\]", "= 1.2"),
-    ("negative-power", GEN, '"12.5 MW"', '"-12.5 MW"', r"\[stg1\.generator_active_power\] out of range: -12\.5 MW given", "-12.5 MW"),
-    ("nan", GEN, "winding_factor = 0.915", "winding_factor = nan", r"\[stg1\.winding_factor\] expected a finite number", "= nan"),
-    ("inf", GEN, "turns_per_phase = 20", "turns_per_phase = inf", r"\[stg1\.turns_per_phase\] expected a finite number", "= inf"),
-    ("text-for-number", GEN, "turns_per_phase = 20", 'turns_per_phase = "twenty"',
-     r"\[stg1\.turns_per_phase\] expected a number with a unit of no unit .*could not read 'twenty'", "twenty"),
-    ("boolean-for-number", GEN, "turns_per_phase = 20", "turns_per_phase = true", r"got a true/false value", "= true"),
-    ("bad-choice", GEN, 'rotor_type = "cylindrical"', 'rotor_type = "cylindric"',
-     r"\[stg1\.rotor_type\] expected one of .*did you mean 'cylindrical'", "cylindric"),
-    ("duplicate-instance-id", GEN, 'id = "gen2"', 'id = "stg1"', r"duplicate instance id 'stg1' \(first defined in inputs/generators.toml:\d+\)", 'id = "stg1"'),
-    ("link-missing-instance", GEN, '{ from = "site.grid_frequency" }', '{ from = "stg9.rated_frequency" }',
-     r"link to stg9\.rated_frequency: no instance 'stg9'", "stg9"),
-    ("link-missing-output", GEN, 'armature_resistance = "0.01 pu"', 'armature_resistance = { from = "stg1.armature_resistanse" }',
-     r"link to stg1\.armature_resistanse: synchronous_generator has no output or input 'armature_resistanse'", "armature_resistanse"),
-    ("link-missing-site-value", GEN, '{ from = "site.grid_frequency" }', '{ from = "site.grid_frequencies" }',
-     r"link to site\.grid_frequencies: the site has no such value", "grid_frequencies"),
-    ("link-bad-form", GEN, '{ from = "site.grid_frequency" }', '{ form = "site.grid_frequency" }',
-     r"a link has only the key 'from'; unknown 'form'", "form ="),
-    ("link-wrong-dimension", GEN, 'armature_resistance = "0.01 pu"', 'armature_resistance = { from = "stg1.generator_current" }',
-     r"\[gen2\.armature_resistance\] link to stg1\.generator_current \(A\): wrong dimension", "stg1.generator_current"),
-    ("unknown-calc", GEN, 'calc = "synchronous_generator"', 'calc = "synchronous_genrator"',
-     r"unknown calc 'synchronous_genrator'.*did you mean 'synchronous_generator'", "synchronous_genrator"),
-    ("bad-instance-id", GEN, 'id = "gen2"', 'id = "Gen 2"', r"\[id\] expected an instance id", 'id = "Gen 2"'),
-    ("site-unknown-key", "project.toml", 'altitude = "145 m"', 'altitud = "145 m"', r"\[site\.altitud\] unknown key; did you mean 'altitude'", "altitud"),
-    ("site-out-of-range", "project.toml", '"36 degC"', '"136 degC"', r"\[site\.ambient_temperature_max\] out of range: 136 degC given", "136 degC"),
-    ("revision-bad-purpose", "revisions.toml", '"issued for review"', '"issued for reveiw"',
-     r"\[revision\.purpose\] expected one of: .*did you mean 'issued for review'", "reveiw"),
-    ("revision-bad-date", "revisions.toml", "date = 2026-10-12", 'date = "12/10/2026"', r"\[revision\.date\] expected a date like", "12/10/2026"),
-    ("revision-missing-signoff", "revisions.toml", 'checked = "R. Okafor"\n', "", r"\[revision\.checked\] missing: each revision states its checked", None),
-    ("not-utf8", GEN, "Invented demo data", "Invented d\udce9mo data", r"the file is not UTF-8 text", None),
-]
+CORPUS = Path(__file__).resolve().parent / "bad_inputs"
+CASES = sorted(CORPUS.glob("*.toml"))
 
 
-@pytest.mark.parametrize("case", CASES, ids=[c[0] for c in CASES])
-def test_bad_input_exit_2_with_clear_message(case, demo_copy: Path, tmp_path: Path, capsys) -> None:
-    _id, rel, old, new, pattern, needle = case
-    if "\udce9" in new:
-        p = demo_copy / rel
-        p.write_bytes(p.read_bytes().replace(old.encode(), new.encode("utf-8", "surrogateescape"), 1))
+def _apply(root: Path, edit: dict) -> None:
+    p = root / edit["file"]
+    if edit.get("replace"):
+        p.write_text(edit["new"], encoding="utf-8")
+    elif "old" not in edit:
+        p.write_text((p.read_text(encoding="utf-8") if p.exists() else "") + edit["new"], encoding="utf-8")
     else:
-        _edit(demo_copy, rel, old, new)
+        data = p.read_bytes()
+        assert edit["old"].encode() in data, f"corpus edit text {edit['old']!r} not in {edit['file']}"
+        p.write_bytes(data.replace(edit["old"].encode(), edit["new"].encode(edit.get("encoding", "utf-8")), 1))
+
+
+def test_the_corpus_covers_every_module_and_the_load_list() -> None:
+    assert len(CASES) >= 60
+    names = " ".join(c.stem for c in CASES)
+    for topic in ("generator", "excitation", "steam", "chp", "hydro", "gas-turbine", "loadlist", "link",
+                  "revision", "site", "toml"):
+        assert topic in names, f"no bad-input case for {topic}"
+
+
+@pytest.mark.parametrize("case", CASES, ids=[c.stem for c in CASES])
+def test_bad_input_exit_2_with_the_exact_message(case: Path, demo_copy: Path, tmp_path: Path, capsys) -> None:
+    """One file per case in tests/bad_inputs/: the edits to a copy of the demo, and the
+    first problem the user must be shown (file, line, key, message), exactly."""
+    import tomllib
+
+    spec = tomllib.loads(case.read_text(encoding="utf-8"))
+    for edit in spec.get("edit", []):
+        _apply(demo_copy, edit)
+    command = spec["command"].split()
     site = tmp_path / "site"
-    code = main(["build", str(demo_copy), "--out", str(site)])
+    argv = [command[0], str(demo_copy), *command[1:]]
+    if command[0] == "build":
+        argv += ["--out", str(site)]
+    code = main(argv)
     err = capsys.readouterr().err
     assert code == 2, err
     assert "Traceback" not in err
-    assert re.search(pattern, err), err
-    assert rel.split("/")[-1] in err
-    if needle is not None:
-        line = _line_of(demo_copy, rel, needle)
-        assert f"{rel}:{line}:" in err, err
+    exp = spec["expect"]
+    where = exp["file"] + (f":{exp['line']}" if "line" in exp else "")
+    key = f"[{exp['key']}] " if exp["key"] else ""
+    first = err.splitlines()[1].strip()
+    assert first == f"{where}: {key}{exp['message']}".replace("PROJECT", str(demo_copy)), err
     assert not site.exists(), "a failed build must write nothing"
+    assert not (demo_copy / "archive" / "rev-A").exists(), "a refused archive must write nothing"
 
 
 def test_check_command_reports_all_problems_at_once(demo_copy: Path, capsys) -> None:

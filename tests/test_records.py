@@ -86,7 +86,7 @@ def test_empty_list_and_header_only(tmp_path: Path) -> None:
     _, problems = _load(tmp_path, "# nothing yet\n\n")
     assert "the file is empty" in problems[0].message
     _, problems = _load(tmp_path, "tag,rated_power,duty\n")
-    assert "expected at least 1 data rows, got 0" in problems[0].message
+    assert "expected at least 1 data row, got 0" in problems[0].message
 
 
 def test_not_utf8_outside_project_missing_and_wrong_type(tmp_path: Path) -> None:

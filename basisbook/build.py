@@ -137,8 +137,38 @@ class Builder:
         self.out = Path(out).resolve()
         self.compute_cache: dict[str, object] = {}
         self.render_cache = RenderCache()
+        self._fingerprint = ""
+        self._last: BuildStats | None = None
+
+    def fingerprint(self) -> str:
+        """A hash of every file that can shape the site: the project folder (not its
+        archive) and the built-in templates."""
+        import hashlib
+
+        from basisbook import __version__
+        from basisbook.render import builtin_templates
+
+        h = hashlib.sha256(__version__.encode())
+        root = self.root.resolve()
+        for base in (root, builtin_templates()):
+            for p in sorted(base.rglob("*")):
+                rel = p.relative_to(base)
+                if (not p.is_file() or rel.parts[0] in ("archive", "__pycache__")
+                        or any(x.startswith(".") for x in rel.parts) or p.resolve().is_relative_to(self.out)):
+                    continue
+                h.update(str(rel).encode() + b"\0" + p.read_bytes() + b"\0")
+        return h.hexdigest()
 
     def build(self) -> BuildStats:
+        fp = self.fingerprint()
+        if fp == self._fingerprint and self._last is not None and (self.out / SITE_MARKER).is_file():
+            # nothing that shapes the site changed: nothing to run, draw or write
+            return BuildStats(self._last.pages, [], 0, self._last.calcs_run + self._last.calcs_reused, 0, 0, 0)
+        stats = self._build()
+        self._fingerprint, self._last = fp, stats
+        return stats
+
+    def _build(self) -> BuildStats:
         _guard_out(self.root, self.out)
         proj = project_mod.load(self.root)  # raises ProjectError: nothing written
         before = set(self.compute_cache)

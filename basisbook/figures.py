@@ -10,6 +10,7 @@ from __future__ import annotations
 import hashlib
 import io
 import json
+import textwrap
 from typing import Any
 
 from basisbook.spec import Chart, EnergyFlow
@@ -52,8 +53,9 @@ def _setup() -> tuple[Any, Any, Any]:
 
 
 def _svg(fig: Any) -> str:
+    # a fixed layout (no "tight" bounding box): one draw instead of two, same bytes every time
     buf = io.StringIO()
-    fig.savefig(buf, format="svg", bbox_inches="tight", metadata={"Date": None, "Creator": None})
+    fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None})
     return buf.getvalue()
 
 
@@ -76,9 +78,9 @@ def _render_energy_flow(flow: EnergyFlow, title: str) -> str:
     with matplotlib.rc_context({**_RC, "axes.grid": False}):
         fig = Figure(figsize=(7.2, 4.6))
         FigureCanvasSVG(fig)
-        ax = fig.add_subplot(1, 1, 1)
+        ax = fig.add_axes((0.0, 0.0, 1.0, 0.93))
         ax.set_axis_off()
-        ax.set_title(title, fontsize=10, parse_math=False)
+        ax.set_title(textwrap.fill(title, 78), fontsize=10, parse_math=False)
         # left: inflows stacked top-down; labels kept apart like the outflow labels
         y = total_in
         last_in_y = float("inf")
@@ -134,7 +136,7 @@ _RC = {
 def _render_chart(chart: Chart, title: str) -> str:
     matplotlib, FigureCanvasSVG, Figure = _setup()
     with matplotlib.rc_context(_RC):
-        fig = Figure(figsize=(6.4, 4.6))
+        fig = Figure(figsize=(6.4, 5.0))
         FigureCanvasSVG(fig)
         ax = fig.add_subplot(1, 1, 1)
         for i, s in enumerate(chart.series):
@@ -142,10 +144,15 @@ def _render_chart(chart: Chart, title: str) -> str:
                     label=s.label, linewidth=1.6)
         for m in chart.markers:
             ax.plot([m.x], [m.y], "o", color="black", markersize=5)
-            ax.annotate(m.label, (m.x, m.y), textcoords="offset points", xytext=(6, 6), fontsize=8, parse_math=False)
+        x0, x1 = ax.get_xlim()
+        for m in chart.markers:
+            # labels near the right edge go to the left of their point, so none is cut off
+            right = m.x > x0 + 0.72 * (x1 - x0)
+            ax.annotate(m.label, (m.x, m.y), textcoords="offset points", xytext=(-6 if right else 6, 6),
+                        ha="right" if right else "left", fontsize=8, parse_math=False)
         ax.set_xlabel(chart.x_label)
         ax.set_ylabel(chart.y_label)
-        ax.set_title(title, fontsize=10, parse_math=False)
+        ax.set_title(textwrap.fill(title, 78), fontsize=10, parse_math=False)
         if chart.x_range:
             ax.set_xlim(*chart.x_range)
         if chart.y_range:
@@ -154,8 +161,13 @@ def _render_chart(chart: Chart, title: str) -> str:
             ax.set_aspect("equal", adjustable="datalim")
         ax.axhline(0, color="0.3", linewidth=0.6)
         ax.axvline(0, color="0.3", linewidth=0.6)
+        ncol = 3 if max((len(x.label) for x in chart.series), default=0) <= 26 else 2
+        rows = -(-len(chart.series) // ncol)  # legend rows
+        bottom = 0.13 + 0.045 * rows
+        top = 0.93 if len(title) <= 78 else 0.89
+        fig.subplots_adjust(left=0.12, right=0.97, top=top, bottom=bottom + 0.04)
         if chart.series:
             # below the axes, so the legend never hides a curve
-            ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.13), ncol=3, fontsize=8,
-                      frameon=False)
+            fig.legend(loc="lower center", ncol=ncol, fontsize=8, frameon=False,
+                       bbox_to_anchor=(0.5, 0.005))
         return _svg(fig)

@@ -499,6 +499,8 @@ class RenderCache:
         self.figures: dict[str, str] = {}
         self.figures_drawn = 0
         self._used = set()
+        self.verification: dict[str, Any] | None = None  # depends on the code only
+        self.sections: dict[tuple[str, int], str] = {}
 
     def environment(self, project_root: Path) -> Any:
         if self.env is None or self.env_root != project_root:
@@ -519,6 +521,18 @@ class RenderCache:
     def finish(self) -> None:
         """Forget figures the last build did not use (memory stays bounded)."""
         self.figures = {k: v for k, v in self.figures.items() if k in self._used}
+
+    def verification_view(self) -> dict[str, Any]:
+        if self.verification is None:
+            self.verification = verification_view()
+        return self.verification
+
+    def localised(self, page: str, text: str, fn: Any) -> str:
+        """A page's one-document section, re-made only when the page's text changed."""
+        key = (page, hash(text))
+        if key not in self.sections:
+            self.sections[key] = fn()
+        return self.sections[key]
 
 
 def render_files(project: Project, runs: list[CalcRun], final_out: Path | None = None,
@@ -545,7 +559,7 @@ def render_files(project: Project, runs: list[CalcRun], final_out: Path | None =
     page("index.html", "index.html", "", **index_view(project, runs))
     page("glossary.html", "glossary.html", "", **glossary_view(runs))
     page("dependencies.html", "dependencies.html", "", **depmap_view(runs))
-    page("verification.html", "verification.html", "", **verification_view())
+    page("verification.html", "verification.html", "", **cache.verification_view())
     if cmp is not None:
         page("changes.html", "changes.html", "", **changes_view(cmp, by_id))
     for r in runs:
@@ -576,8 +590,13 @@ def render_files(project: Project, runs: list[CalcRun], final_out: Path | None =
     order += [(f"{r.id}.html", r.instance.title) for r in runs]
     order += [("dependencies.html", "Dependency map"), ("glossary.html", "Glossary"),
               ("verification.html", "Verification appendix")]
-    page("handbook.html", "handbook.html", "", sections=[
-        {**sec, "body": Markup(sec["body"])} for sec in onedoc.sections(rendered, order)])
+    pages = {pg for pg, _ in order}
+    sections = [{"anchor": f"{onedoc._prefix(pg)}top", "title": title,
+                 "body": Markup(cache.localised(pg, rendered[pg], lambda pg=pg: onedoc.localise(
+                     onedoc.main_of(rendered[pg]), pg, pages)))}
+                for pg, title in order]
+    cache.sections = {k: v for k, v in cache.sections.items() if (k[0], hash(rendered.get(k[0], ""))) == k}
+    page("handbook.html", "handbook.html", "", sections=sections)
     files["assets/search-index.js"] = search_index(runs).encode("utf-8")
     doc = results_document(project, runs)
     files["results.json"] = (json.dumps(doc, indent=1, sort_keys=True, ensure_ascii=False) + "\n").encode("utf-8")

@@ -68,9 +68,10 @@ def incremental(project: Path) -> dict[str, Any]:
         changed = "no load list in this project: changed one TOML value instead"
         if loads is not None:
             rows = list(csv.reader(io.StringIO(loads.read_text(encoding="utf-8"))))
-            head = [h.strip() for h in rows[0]]
+            h = next(i for i, r in enumerate(rows) if r and not r[0].startswith("#"))
+            head = [x.strip() for x in rows[h]]
             col = head.index("load_factor") if "load_factor" in head else 2
-            first = next(i for i, r in enumerate(rows) if i > 0 and r and not r[0].startswith("#"))
+            first = next(i for i, r in enumerate(rows) if i > h and r and not r[0].startswith("#"))
             rows[first][col] = str(round(float(re.sub(r"[^\d.]", "", rows[first][col]) or 0.8) * 0.97, 4))
             buf = io.StringIO()
             csv.writer(buf, lineterminator="\n").writerows(rows)
@@ -96,12 +97,18 @@ def _rows_project(project: Path, rows: int, dest: Path) -> Path:
     loads = _load_list(dest)
     if loads is None:
         raise SystemExit("the project has no CSV load list to scale")
-    table = list(csv.reader(io.StringIO(loads.read_text(encoding="utf-8"))))
-    head, body = table[0], [r for r in table[1:] if r and not r[0].startswith("#")]
+    table = [r for r in csv.reader(io.StringIO(loads.read_text(encoding="utf-8"))) if r and not r[0].startswith("#")]
+    head, body = table[0], table[1:]
     out = [head]
+    col = head.index("rated_power") if "rated_power" in head else None
+    scale = len(body) / rows  # the total demand stays that of the demo, whatever the row count
     for i in range(rows):
         r = list(body[i % len(body)])
         r[0] = f"{r[0]}-{i:05d}"  # tags stay unique
+        if col is not None:
+            m = re.match(r"\s*([\d.]+)\s*(.*)", r[col])
+            if m:
+                r[col] = f"{float(m.group(1)) * scale:.6g} {m.group(2)}".strip()
         out.append(r)
     buf = io.StringIO()
     csv.writer(buf, lineterminator="\n").writerows(out)

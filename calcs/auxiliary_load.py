@@ -330,6 +330,9 @@ def compute(v: Values) -> Result:
     if share > 50.0:
         raise InputConflict("load_list", f"the auxiliary demand {total.active:g} kW is {share:.0f} % of the "
                             f"gross output {p_g:g} MW; check the units of rated_power")
+    if share > 20.0:  # possible, but a reviewer must look (common practice, no source)
+        warnings.append(f"auxiliary consumption {share:.1f} % of gross output is above 20 %: unusual for a "
+                        "generating unit; check the load list and the demand factors")
 
     outputs: dict[str, float | str] = {
         "connected_load": total.connected,

@@ -213,7 +213,7 @@ SPEC = CalcSpec(
         "separate production by the EU high-efficiency cogeneration formula."
     ),
     inputs=[
-        Input("engine_electrical_output", range="(0, 20000]",
+        Input("engine_electrical_output", range="[1, 20000]",
               note="link it to the generator's rated active power"),
         Input("fuel_input_basis", default="electrical_efficiency",
               choices=("electrical_efficiency", "gas_flow", "fuel_input")),
@@ -222,7 +222,9 @@ SPEC = CalcSpec(
         Input("fuel_gas_flow", range="[0, 100000]", default=0.0, note="used when the basis is gas_flow"),
         Input("engine_fuel_input_given", range="[0, 60000]", default=0.0,
               note="used when the basis is fuel_input"),
-        Input("methane_fraction", range="(0, 1]", note="the rest is taken as CO2 (inert)"),
+        Input("methane_fraction", range="[0.3, 1]",
+              note="the rest is taken as CO2 (inert); below about 0.3 (weak landfill gas) the gas "
+                   "no longer fires an engine"),
         Input("methane_net_calorific_value", range="[45, 55]", default=50.03,
               note="ISO 6976:2016 Table 3 at 25 °C (as recalled, from memory)"),
         Input("jacket_water_heat_share", range="[0, 1)"),
@@ -237,9 +239,9 @@ SPEC = CalcSpec(
               note="common practice for desulphurised biogas; raise it (150-180 °C) for gas with more H2S"),
         Input("heating_supply_temperature", range="(20, 140]"),
         Input("heating_return_temperature", range="(10, 130]"),
-        Input("reference_electrical_efficiency", range="(0, 1]", default=0.42,
+        Input("reference_electrical_efficiency", range="[0.2, 1]", default=0.42,
               note="Regulation (EU) 2015/2402 Annex I, biogas (as recalled); 0.53 for natural gas"),
-        Input("reference_heat_efficiency", range="(0, 1]", default=0.80,
+        Input("reference_heat_efficiency", range="[0.5, 1]", default=0.80,
               note="Regulation (EU) 2015/2402 Annex II, biogas, hot water (as recalled); 0.92 for natural gas"),
     ],
     outputs=[
@@ -445,6 +447,11 @@ def compute(v: Values) -> Result:
     lhv_n = gas_net_calorific_value(x, rho_ch4, float(v.methane_net_calorific_value))
     fuel = _fuel_input(v, p_el, lhv_n)
     eta_el = p_el / fuel
+    if eta_el < 0.15:
+        key = {"gas_flow": "fuel_gas_flow", "fuel_input": "engine_fuel_input_given"}.get(
+            v.fuel_input_basis, "engine_electrical_efficiency_given")
+        raise InputConflict(key, f"the electrical efficiency would be {100 * eta_el:.1f} %; gas engine "
+                            "generator sets reach 25-45 % at rated load, check the fuel data")
     share_sum = eta_el + sum(shares)
     if share_sum >= 1.0:
         raise InputConflict("jacket_water_heat_share",
@@ -471,6 +478,13 @@ def compute(v: Values) -> Result:
     q_th = hr.total
     eta_th = q_th / fuel
     m_hw = 3.6 * q_th / (water_enthalpy(t_s) - water_enthalpy(t_r))
+    if p_el + q_th > fuel:
+        # the stack always carries heat away, so useful outputs above the fuel input break the
+        # first law whatever the rounding of the data sheet (a smaller mismatch is the check's job)
+        raise InputConflict("exhaust_mass_flow",
+                            f"electricity ({p_el:.0f} kW) and recovered heat ({q_th:.0f} kW, of which "
+                            f"{hr.exhaust:.0f} kW from {m_exh:.0f} kg/h of exhaust) exceed the fuel input "
+                            f"({fuel:.0f} kW): check the exhaust mass flow and temperatures")
     unaccounted = fuel - p_el - hr.jacket - hr.oil - hr.charge_air - hr.exhaust - hr.stack
     if unaccounted < 0:
         warnings.append(f"the declared outputs exceed the fuel input by {-unaccounted:.0f} kW: check the "

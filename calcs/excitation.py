@@ -517,11 +517,11 @@ SPEC = CalcSpec(
         "voltage through the open-circuit characteristic, fed back to the error."
     ),
     inputs=[
-        Input("generator_voltage", range="(0, 30]", note="link to the generator"),
-        Input("generator_current", range="(0, 100000]", note="link to the generator"),
-        Input("generator_apparent_power", range="(0, 2000]", note="link to the generator"),
-        Input("generator_power_factor", range="(0, 1]", note="link to the generator"),
-        Input("direct_axis_reactance", range="(0, 10]", note="link to the generator (saturated value)"),
+        Input("generator_voltage", range="[0.1, 30]", note="link to the generator"),
+        Input("generator_current", range="[1, 100000]", note="link to the generator"),
+        Input("generator_apparent_power", range="[0.01, 2000]", note="link to the generator"),
+        Input("generator_power_factor", range="[0.5, 1]", note="link to the generator"),
+        Input("direct_axis_reactance", range="[0.1, 10]", note="link to the generator (saturated value)"),
         Input("rotor_type", default="cylindrical", choices=("cylindrical", "salient"),
               note="link to the generator"),
         Input("stability_margin", range="[0, 0.5]", default=0.10,
@@ -537,7 +537,8 @@ SPEC = CalcSpec(
         Input("short_circuit_field_current", range="(0, inf)",
               note="sustained three-phase short-circuit test at rated current"),
         Input("potier_reactance", range="(0, 1)", note="IEC 60034-4-1 (zero-power-factor test)"),
-        Input("field_resistance_reference", range="(0, 100]"),
+        Input("field_resistance_reference", range="[0.001, 100]",
+              note="field windings: from about 0.05 ohm (large machines) to tens of ohms (small ones)"),
         Input("field_reference_temperature", range="[-40, 200]"),
         Input("field_operating_temperature", range="[-40, 200]",
               note="e.g. the temperature of the insulation class's rise above the coolant"),
@@ -555,10 +556,14 @@ SPEC = CalcSpec(
               note="common practice (margin for commutation in inverter operation)"),
         Input("continuous_current_factor", range="[1, 2]", default=1.1, note="common practice"),
         Input("ceiling_margin_required", range="[0, 100]", default=5.0, note="common practice"),
-        Input("avr_gain", range="(0, 2000]"),
-        Input("avr_time_constant", range="[0, 10]", note="0 for an ideal (instantaneous) exciter"),
-        Input("open_circuit_time_constant", range="(0, 30]"),
-        Input("reference_step", range="(0, 0.2]", default=0.05),
+        Input("avr_gain", range="[10, 2000]",
+              note="proportional gain of a static exciter regulator, typically 50-400 pu/pu"),
+        Input("avr_time_constant", range="[0, 10]",
+              note="0 for an ideal (instantaneous) exciter; static exciters about 0.01-0.05 s"),
+        Input("open_circuit_time_constant", range="[0.3, 30]",
+              note="real machines: from about 1 s (small) to 12 s (large)"),
+        Input("reference_step", range="[0.01, 0.2]", default=0.05,
+              note="step tests on the voltage reference use 1-10 %"),
         Input("voltage_rise_time_limit", range="(0, 60]", default=0.5, note="common practice"),
         Input("voltage_overshoot_limit", range="[0, 100]", default=15.0, note="common practice"),
         Input("voltage_settling_time_limit", range="(0, 120]", default=2.0, note="common practice"),
@@ -953,6 +958,11 @@ def compute(v: Values) -> Result:
     # --- regulator step response (pu on the air-gap base: field voltage R_f2 I_fg)
     k_a = float(v.avr_gain)
     t_a = float(v.avr_time_constant)
+    if 0.0 < t_a < 1e-3:
+        # below a millisecond the lag is far inside the bridge's own firing delay; the stiff
+        # system would also need millions of integration steps
+        raise InputConflict("avr_time_constant", f"T_A = {t_a:g} s is below 1 ms; give 0 for an ideal "
+                            "(instantaneous) exciter")
     t_d0 = float(v.open_circuit_time_constant)
     du = float(v.reference_step)
     e_base = r_f2 * i_fg

@@ -166,18 +166,17 @@ def motor_start_voltages(z_source: complex, base_p: float, base_q: float, start_
     """(bus voltage before, during the start) in pu of the source EMF: impedance method of
     IEEE Std 399-1997 ch. 9 (as recalled).  Running load and locked rotor as constant
     impedances Z = U^2 / S* (U in kV, S in MVA/Mvar, Z in ohm); z_source in ohm at bus_kv."""
-    z_load = bus_kv**2 / complex(base_p, -base_q) if base_p or base_q else None
+    # worked in admittances Y = S* / U^2 (= 1/Z): a vanishing load is Y -> 0, not Z -> inf
+    # (Z = U^2/S* overflowed for a load of a few watts and the divider gave NaN)
+    y_load = complex(base_p, -base_q) / bus_kv**2
     sin = math.sqrt(1.0 - start_pf**2)
-    z_motor = bus_kv**2 / complex(start_s * start_pf, -start_s * sin) if start_s > 0 else None
+    y_motor = complex(start_s * start_pf, -start_s * sin) / bus_kv**2
 
-    def divide(*zs: complex | None) -> float:
-        loads = [z for z in zs if z is not None]
-        if not loads:
-            return 1.0
-        z_l = parallel(*loads)
-        return abs(z_l / (z_source + z_l))
+    def divide(y_l: complex) -> float:
+        # |Z_l / (Z_s + Z_l)| = 1 / |1 + Z_s Y_l|
+        return 1.0 / abs(1.0 + z_source * y_l)
 
-    return divide(z_load), divide(z_load, z_motor)
+    return divide(y_load), divide(y_load + y_motor)
 
 
 def capability_pq(p: float, s_r: float, x_d: float, e_0: float) -> tuple[float, float]:
@@ -222,9 +221,9 @@ REFERENCES = [
 
 
 def _ratings(prefix: str, title: str) -> list[Input]:
-    return [Input(f"{prefix}_switchgear_breaking_current", range="(0, 300]",
+    return [Input(f"{prefix}_switchgear_breaking_current", range="[1, 300]",
                   note=f"rated short-circuit breaking current of the {title} switchgear"),
-            Input(f"{prefix}_switchgear_making_current", range="(0, 800]",
+            Input(f"{prefix}_switchgear_making_current", range="[2.5, 800]",
                   note=f"rated short-circuit making (peak) current of the {title} switchgear")]
 
 
@@ -240,38 +239,38 @@ SPEC = CalcSpec(
         "draw the unit's key single-line diagram."
     ),
     inputs=[
-        Input("grid_voltage", range="(0, 1200]", note="nominal system voltage U_nQ, usually from the site"),
-        Input("grid_fault_level", range="(0, 100000]", note="maximum, as stated by the network operator"),
+        Input("grid_voltage", range="[1, 1200]", note="nominal system voltage U_nQ, usually from the site"),
+        Input("grid_fault_level", range="[1, 100000]", note="maximum, as stated by the network operator"),
         Input("grid_resistance_ratio", range="[0, 2]", default=0.1,
               note="IEC 60909-0 cl. 6.2 allows R_Q = 0.1 X_Q when unknown"),
         Input("voltage_factor_mv", range="[1, 1.1]", default=1.1, note="IEC 60909-0 Table 1, above 1 kV"),
         Input("voltage_factor_lv", range="[1, 1.1]", default=1.05,
               note="IEC 60909-0 Table 1: 1.05 (+6 % tolerance) or 1.10 (+10 %)"),
-        Input("step_up_rated_power", range="(0, 2000]"),
-        Input("step_up_short_circuit_impedance", range="(0, 30]"),
+        Input("step_up_rated_power", range="[0.1, 2000]"),
+        Input("step_up_short_circuit_impedance", range="[1, 30]"),
         Input("step_up_resistive_impedance", range="[0, 10]"),
-        Input("step_up_hv_voltage", range="(0, 800]"),
-        Input("step_up_lv_voltage", range="(0, 800]"),
+        Input("step_up_hv_voltage", range="[1, 800]"),
+        Input("step_up_lv_voltage", range="[0.1, 800]"),
         Input("step_up_tap_changer", choices=("on_load", "off_circuit")),
-        Input("generator_apparent_power", range="(0, 2000]"),
-        Input("generator_active_power", range="(0, 2000]"),
-        Input("generator_voltage", range="(0, 30]"),
-        Input("generator_power_factor", range="(0, 1]"),
-        Input("subtransient_reactance", range="(0, 1]", note="saturated value, IEC 60034-4-1"),
-        Input("direct_axis_reactance", range="(0, 10]"),
-        Input("internal_emf", range="(0, 10]", note="excitation EMF at the rated point (field limit)"),
-        Input("prime_mover_rating", range="(0, 2000]"),
-        Input("auxiliary_transformer_rated_power", range="(0, 2000]"),
-        Input("auxiliary_transformer_short_circuit_impedance", range="(0, 30]"),
+        Input("generator_apparent_power", range="[0.01, 2000]"),
+        Input("generator_active_power", range="[0.01, 2000]"),
+        Input("generator_voltage", range="[0.1, 30]"),
+        Input("generator_power_factor", range="[0.5, 1]"),
+        Input("subtransient_reactance", range="[0.05, 1]", note="saturated value, IEC 60034-4-1"),
+        Input("direct_axis_reactance", range="[0.1, 10]"),
+        Input("internal_emf", range="[0.5, 10]", note="excitation EMF at the rated point (field limit)"),
+        Input("prime_mover_rating", range="[0.01, 2000]"),
+        Input("auxiliary_transformer_rated_power", range="[0.01, 2000]"),
+        Input("auxiliary_transformer_short_circuit_impedance", range="[1, 30]"),
         Input("auxiliary_transformer_resistive_impedance", range="[0, 10]"),
-        Input("auxiliary_transformer_hv_voltage", range="(0, 800]"),
-        Input("auxiliary_transformer_lv_voltage", range="(0, 800]"),
+        Input("auxiliary_transformer_hv_voltage", range="[0.4, 800]"),
+        Input("auxiliary_transformer_lv_voltage", range="[0.1, 800]"),
         Input("maximum_demand_active", range="[0, 1e6]"),
         Input("maximum_demand_reactive", range="[-1e6, 1e6]"),
         Input("running_motor_apparent_power", range="[0, 1e6]"),
         Input("motor_group_current_ratio", range="[0, 12]"),
         Input("largest_motor_starting_power", range="[0, 1e6]"),
-        Input("largest_motor_starting_power_factor", range="(0, 1]"),
+        Input("largest_motor_starting_power_factor", range="[0.05, 1]"),
         Input("motor_start_base_active_load", range="[0, 1e6]"),
         Input("motor_start_base_reactive_load", range="[-1e6, 1e6]"),
         Input("motor_start_voltage_limit", range="(0, 100]", default=80.0,
@@ -279,9 +278,9 @@ SPEC = CalcSpec(
         *_ratings("hv", "grid-connection (HV)"),
         *_ratings("generator", "generator-bus"),
         *_ratings("auxiliary", "auxiliary-board"),
-        Input("required_power_factor_lagging", range="(0, 1]", default=0.95,
+        Input("required_power_factor_lagging", range="[0.5, 1]", default=0.95,
               note="at the connection point, delivering reactive power"),
-        Input("required_power_factor_leading", range="(0, 1]", default=0.95,
+        Input("required_power_factor_leading", range="[0.5, 1]", default=0.95,
               note="at the connection point, absorbing reactive power"),
     ],
     outputs=[
@@ -514,8 +513,14 @@ def compute(v: Values) -> Result:
     k_t_aux = network_transformer_correction(c_mv, x_ta)
     s_m = float(v.running_motor_apparent_power) / 1e3  # MVA
     ratio_m = float(v.motor_group_current_ratio)
-    z_m = (motor_group_impedance(ratio_m, u_alv, s_m, motor_resistance_ratio(u_alv))
-           if s_m > 0 and ratio_m > 0 else None)
+    if 0.0 < ratio_m < 1.0:
+        raise InputConflict("motor_group_current_ratio", f"locked-rotor to rated current ratio {ratio_m:g} "
+                            "is below 1; induction motors draw 4-8 times their rated current (0: no motors)")
+    z_m = None
+    if s_m > 0 and ratio_m > 0:
+        z_m = motor_group_impedance(ratio_m, u_alv, s_m, motor_resistance_ratio(u_alv))
+        # a group of a few milliwatts: its impedance overflows and its contribution is nil
+        z_m = z_m if math.isfinite(abs(z_m)) else None
 
     # fault at the grid connection (HV side of the GSU): network feeder and power-station unit
     if v.step_up_tap_changer == "on_load":

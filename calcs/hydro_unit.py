@@ -143,8 +143,8 @@ SPEC = CalcSpec(
         "water-to-wire efficiency chain and, from a flow-duration curve, the annual energy."
     ),
     inputs=[
-        Input("hydro_design_flow", range="(0, 1000]"),
-        Input("gross_head", range="(0, 2000]"),
+        Input("hydro_design_flow", range="[0.01, 1000]", note="from 10 l/s (micro hydro) upwards"),
+        Input("gross_head", range="[1, 2000]", note="the lowest-head turbines work from about 1.5 m"),
         Input("water_temperature", range="[0.1, 40]", default=10.0),
         Input("penstock_loss_basis", default="roughness", choices=("head_loss", "friction_factor", "roughness")),
         Input("penstock_head_loss_given", range="[0, 2000]", default=0.0, note="used when the basis is head_loss"),
@@ -155,10 +155,11 @@ SPEC = CalcSpec(
         Input("penstock_roughness", range="[0, 10]", default=0.045,
               note="0.045 mm for new commercial steel (White, 7th ed., Table 6.1, as recalled)"),
         Input("penstock_minor_loss_coefficient", range="[0, 50]", default=0.0),
-        Input("hydro_turbine_efficiency", range="(0, 1]"),
-        Input("mechanical_efficiency", range="(0, 1]", default=1.0, note="gearbox, if any; 1 for direct drive"),
-        Input("generator_efficiency", range="(0, 1]"),
-        Input("hydro_transformer_efficiency", range="(0, 1]", default=1.0),
+        Input("hydro_turbine_efficiency", range="[0.5, 1]",
+              note="best-point efficiencies of real turbines lie between about 0.8 and 0.95"),
+        Input("mechanical_efficiency", range="[0.8, 1]", default=1.0, note="gearbox, if any; 1 for direct drive"),
+        Input("generator_efficiency", range="[0.7, 1]"),
+        Input("hydro_transformer_efficiency", range="[0.9, 1]", default=1.0),
         Input("flow_duration_curve", default=(), min_rows=0,
               columns=(Column("exceedance", "%", "[0, 100]"), Column("flow", "m**3/s", "[0, 100000]")),
               note="optional; rows of exceedance share of the year and river flow available to the unit"),
@@ -285,6 +286,9 @@ def compute(v: Values) -> Result:
     eta_t, eta_m = float(v.hydro_turbine_efficiency), float(v.mechanical_efficiency)
     eta_g, eta_tr = float(v.generator_efficiency), float(v.hydro_transformer_efficiency)
 
+    if 0.0 < d < 0.05:
+        raise InputConflict("penstock_diameter", f"penstock diameter {d:g} m is below 50 mm; give the "
+                            "diameter in metres, or 0 when the head loss is given directly")
     if basis == "head_loss":
         velocity = 4.0 * q_d / (math.pi * d * d) if d > 0 else 0.0
         reynolds = velocity * d / (nu * 1e-6)
@@ -307,6 +311,11 @@ def compute(v: Values) -> Result:
         raise InputConflict("penstock_head_loss_given" if basis == "head_loss" else "penstock_diameter",
                             f"the penstock head loss {h_f:.2f} m is not below the gross head {h_g:g} m")
     h_n = h_g - h_f
+    if h_f > h_g / 3.0:
+        # P ~ q (h_g - h_f (q/q_d)^2) peaks at q = q_d sqrt(h_g / (3 h_f)): beyond it more flow
+        # gives less power, so the design flow lies past the unit's best point
+        warnings.append(f"the penstock head loss {h_f:.2f} m is more than a third of the gross head: the unit "
+                        "would give more power at a lower flow than the design flow; enlarge the penstock")
     p_gross = hydraulic_power(rho, q_d, h_g)
     p_net = hydraulic_power(rho, q_d, h_n)
     p_shaft = eta_t * p_net

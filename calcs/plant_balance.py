@@ -196,8 +196,10 @@ def compute(v: Values) -> Result:
                                 f"fuel input {f:g} MW; the unit would make energy from nothing")
         if w_n and g > 0.0 and w and g >= w:
             raise InputConflict(w_n, f"{label}: gross output {g:g} MW is not below its water power {w:g} MW")
-        if a > g and g > 0.0:
-            warnings.append(f"{label}: auxiliary load {a:g} MW exceeds its gross output {g:g} MW")
+        if a >= g > 0.0:
+            # at its design point a generating unit that consumes all it makes is a data error
+            raise InputConflict(a_n, f"{label}: auxiliary load {a:g} MW is not below its gross output "
+                                f"{g:g} MW; the unit would export nothing at its design point")
         if g > 0.0 and t == 0.0:
             warnings.append(f"{label}: no operating hours given; its annual energy counts as 0")
         gross += g
@@ -229,7 +231,15 @@ def compute(v: Values) -> Result:
     if fuel == 0.0:
         raise InputConflict("steam_unit_fuel_input", "no fired unit has a fuel input; the plant efficiencies "
                             "on fuel are undefined")
+    if gross == 0.0:
+        raise InputConflict("steam_unit_gross_output", "no unit delivers power; the balance needs at least "
+                            "one unit with a gross output")
     net = gross - aux
+    if net - hydro_net <= 0.0:
+        raise InputConflict("common_auxiliary_load",
+                            f"the common services load {common:g} MW is not below the fired units' own net "
+                            f"output {net - hydro_net + common:g} MW; charged to them, their net efficiency "
+                            "would be zero or negative")
     losses = fuel + water - gross - heat
     eta_el = (net - hydro_net) / fuel
     outputs: dict[str, float | str] = {

@@ -170,8 +170,8 @@ SPEC = CalcSpec(
               note="lagging (inductive) load positive"),
         Input("growth_margin", range="[0, 100]", default=0.0,
               note="future load, common practice 10-25 % on auxiliary transformers"),
-        Input("hv_rated_voltage", range="(0, 800]"),
-        Input("lv_rated_voltage", range="(0, 800]"),
+        Input("hv_rated_voltage", range="[0.4, 800]"),
+        Input("lv_rated_voltage", range="[0.1, 800]"),
         Input("cooling_method", choices=("ONAN", "ONAF"), default="ONAN"),
         Input("ambient_temperature_max", range="[-60, 60]", note="usually linked from the site"),
         Input("altitude", range="[-500, 5000]", note="usually linked from the site"),
@@ -296,8 +296,9 @@ def compute(v: Values) -> Result:
     p = float(v.transformer_active_load)
     q = float(v.transformer_reactive_load)
     s_load = math.hypot(p, q)
-    if s_load <= 0.0:
-        raise InputConflict("transformer_active_load", "the transformer carries no load (P = Q = 0)")
+    if s_load < 1e-3:
+        raise InputConflict("transformer_active_load", f"the transformer carries no load: {s_load:.3g} MVA "
+                            "is below 1 kVA (P = Q = 0, or values not in MW/Mvar)")
     if float(v.lv_rated_voltage) >= float(v.hv_rated_voltage):
         raise InputConflict("lv_rated_voltage", f"LV {v.lv_rated_voltage:g} kV is not below HV "
                             f"{v.hv_rated_voltage:g} kV")
@@ -310,6 +311,10 @@ def compute(v: Values) -> Result:
     growth = 1.0 + float(v.growth_margin) / 100.0
     s_req = s_load * growth / k
     s_r = float(v.stated_rated_power) or next_r10(s_req)
+    if s_r < s_load / 20.0:
+        # an undersized rating is the rating check's job; twenty times overloaded is a unit slip
+        raise InputConflict("stated_rated_power", f"stated rating {s_r:.3g} MVA is below a twentieth of "
+                            f"the load {s_load:.3g} MVA; check its unit (MVA expected)")
     if v.stated_rated_power and not math.isclose(s_r, next_r10(s_r), rel_tol=1e-9):
         warnings.append(f"stated rating {s_r:g} MVA is not an R10 preferred rating (ISO 3)")
     uk_min = minimum_short_circuit_impedance(1e3 * s_r)
@@ -325,7 +330,12 @@ def compute(v: Values) -> Result:
     losses, eta = efficiency(s_load, pf, s_r, float(v.no_load_loss), float(v.load_loss))
     i_hv = 1e3 * s_r / (math.sqrt(3.0) * float(v.hv_rated_voltage))
     i_lv = 1e3 * s_r / (math.sqrt(3.0) * float(v.lv_rated_voltage))
-    i_f_lv = through_fault_current(s_r, float(v.lv_rated_voltage), uk, float(v.source_fault_level))
+    s_src = float(v.source_fault_level)
+    if 0.0 < s_src < s_r:
+        # such a supply could not hold its voltage at the transformer's own rated load
+        raise InputConflict("source_fault_level", f"source fault level {s_src:.3g} MVA is below the "
+                            f"transformer rating {s_r:g} MVA; check the value (0 for an infinite source)")
+    i_f_lv = through_fault_current(s_r, float(v.lv_rated_voltage), uk, s_src)
     if v.transformer_role == "step_up" and v.tap_changer == "off_circuit":
         warnings.append("a step-up transformer with off-circuit taps only: the generator's voltage "
                         "range must cover the grid's")

@@ -49,6 +49,14 @@ CRITICAL_TEMPERATURE = 373.946  # degC (647.096 K), IAPWS-IF97
 KELVIN = 273.15
 # Latent heat of water at 25 degC per % moisture, MJ/kg: ISO 18125:2017 (2.443 MJ/kg / 100)
 EVAPORATION_PER_PERCENT = 0.02443
+# bar: saturation at about 7 °C; no condenser is designed colder (a given pressure below it is an
+# input error)
+MINIMUM_CONDENSER_PRESSURE = 0.01
+# bar: triple point of water, where IAPWS-IF97 region 4 begins; the sensitivity sweep stays above it
+TRIPLE_POINT_PRESSURE = 0.00611657
+# MJ/kg as received: below about this no solid fuel sustains combustion without support fuel
+# (common practice, no source; wet bark at 60 % moisture still gives about 6 MJ/kg)
+MINIMUM_FUEL_LHV = 2.0
 
 # ---------------------------------------------------------------------------
 # Water and steam properties (IAPWS-IF97 via CoolProp), in bar / degC / kJ
@@ -406,9 +414,9 @@ SPEC = CalcSpec(
         "for the rated generator output, and the gross and net electrical efficiencies."
     ),
     inputs=[
-        Input("gross_electrical_output", range="(0, 500]",
+        Input("gross_electrical_output", range="[0.1, 500]",
               note="the generator's rated active power where linked"),
-        Input("live_steam_pressure", range="(0, 220]", note="subcritical cycles only"),
+        Input("live_steam_pressure", range="[1, 220]", note="subcritical cycles only"),
         Input("live_steam_temperature", range="(0, 800]", note="IAPWS-IF97 region 2 ends at 800 °C"),
         Input("boiler_pressure_drop", range="[0, 50]"),
         Input("heater_extraction_pressure", range="(0, 220)",
@@ -418,25 +426,26 @@ SPEC = CalcSpec(
         Input("condenser_pressure", range="[0, 5]", default=0.0,
               note="needed when the basis is 'given'; 0 = not given"),
         Input("cooling_water_inlet_temperature", range="[0, 60]"),
-        Input("cooling_water_rise", range="(0, 30]"),
-        Input("condenser_design_terminal_difference", range="(0, 30]", default=5.0,
+        Input("cooling_water_rise", range="[2, 30]", note="condensers are designed for about 5-12 K"),
+        Input("condenser_design_terminal_difference", range="[1, 30]", default=5.0,
               note="used when the basis is 'cooling_water'; common practice 3-6 K"),
         Input("condenser_minimum_terminal_difference", range="[0, 30]", default=3.0,
               note="common practice, no source"),
-        Input("hp_section_efficiency", range="(0, 1]"),
-        Input("ip_section_efficiency", range="(0, 1]"),
-        Input("lp_section_efficiency", range="(0, 1]"),
-        Input("pump_efficiency", range="(0, 1]"),
+        Input("hp_section_efficiency", range="[0.5, 1]", note="real sections reach about 0.75-0.92"),
+        Input("ip_section_efficiency", range="[0.5, 1]"),
+        Input("lp_section_efficiency", range="[0.5, 1]"),
+        Input("pump_efficiency", range="[0.3, 1]", note="feed pumps reach about 0.6-0.85"),
         Input("heater_terminal_difference", range="[-5, 30]",
               note="a negative value needs a desuperheating zone, which this model does not have"),
         Input("drain_cooler", default="none", choices=("none", "fitted")),
         Input("drain_cooler_approach", range="(0, 30]", default=5.6,
               note="used when a drain cooler is fitted; common practice about 5.6 K (10 °F)"),
-        Input("mechanical_efficiency", range="(0, 1]"),
-        Input("generator_efficiency", range="(0, 1]", default=0.975,
+        Input("mechanical_efficiency", range="[0.9, 1]", note="bearings and any gearbox: 0.97-0.995"),
+        Input("generator_efficiency", range="[0.7, 1]", default=0.975,
               note="common practice for a 10-20 MVA air-cooled generator, no source; the generator "
                    "calc gives no efficiency yet"),
-        Input("boiler_efficiency", range="(0, 1]"),
+        Input("boiler_efficiency", range="[0.3, 1]",
+              note="net calorific value basis; real biomass boilers reach about 0.80-0.92"),
         Input("auxiliary_load", range="[0, 100]",
               note="an input until the auxiliary-load calc exists"),
         Input("fuel_basis", default="dry_and_moisture", choices=("dry_and_moisture", "as_received")),
@@ -771,13 +780,20 @@ def _fuel_lhv(v: Values, warnings: list[str]) -> float:
         if float(v.fuel_lhv_as_received) <= 0.0:
             raise InputConflict("fuel_lhv_as_received",
                                 "fuel basis 'as_received' needs fuel_lhv_as_received > 0 (MJ/kg)")
+        if float(v.fuel_lhv_as_received) < MINIMUM_FUEL_LHV:
+            raise InputConflict("fuel_lhv_as_received",
+                                f"{float(v.fuel_lhv_as_received):g} MJ/kg is below {MINIMUM_FUEL_LHV:g} MJ/kg: "
+                                "the fuel would not sustain combustion")
         if float(v.fuel_lhv_dry) or float(v.fuel_moisture):
             warnings.append("fuel basis 'as_received': the dry-basis heating value and moisture are ignored")
         return float(v.fuel_lhv_as_received)
     if float(v.fuel_lhv_dry) <= 0.0:
         raise InputConflict("fuel_lhv_dry", "fuel basis 'dry_and_moisture' needs fuel_lhv_dry > 0 (MJ/kg)")
+    if float(v.fuel_lhv_dry) < MINIMUM_FUEL_LHV:
+        raise InputConflict("fuel_lhv_dry", f"{float(v.fuel_lhv_dry):g} MJ/kg is below {MINIMUM_FUEL_LHV:g} "
+                            "MJ/kg: no dry fuel burns so poorly (wood about 19 MJ/kg)")
     q = as_received_lhv(float(v.fuel_lhv_dry), float(v.fuel_moisture))
-    if q <= 0.0:
+    if q < MINIMUM_FUEL_LHV:
         raise InputConflict("fuel_moisture",
                             f"with {float(v.fuel_moisture):g} % moisture the as-received net calorific value "
                             f"is {q:.2f} MJ/kg: the fuel would not sustain combustion")
@@ -852,7 +868,7 @@ def _sweep(v: Values, p_c: float, fuel_lhv: float) -> tuple[Chart, Chart, Table,
     pc_x, pc_net = [], []
     for f in factors:
         p = round(p_c * f, 6)
-        if p >= float(v.deaerator_pressure):
+        if p >= float(v.deaerator_pressure) or p <= TRIPLE_POINT_PRESSURE:
             continue
         r = solve(replace(base, condenser_pressure=p), "condenser pressure")
         if r:
@@ -900,6 +916,10 @@ def compute(v: Values) -> Result:
                                 "condenser-pressure basis 'given' needs condenser_pressure > 0 "
                                 "(or choose condenser_pressure_basis = 'cooling_water')")
         p_c = float(v.condenser_pressure)
+        if p_c < MINIMUM_CONDENSER_PRESSURE:
+            raise InputConflict("condenser_pressure",
+                                f"condenser pressure {p_c:g} bar is below {MINIMUM_CONDENSER_PRESSURE:g} bar "
+                                "(saturation at about 7 °C); no condenser runs so cold: check the unit (bar)")
     else:
         t_sat_c = t_cw_out + float(v.condenser_design_terminal_difference)
         if t_sat_c >= 100.0:
@@ -933,6 +953,13 @@ def compute(v: Values) -> Result:
     if float(v.boiler_efficiency) > 0.95:
         warnings.append(f"boiler efficiency {float(v.boiler_efficiency):g} on net calorific value is "
                         "high for a biomass boiler (about 0.85-0.92, common practice)")
+    # plausibility, not errors: possible, but a reviewer must look (common practice, no source)
+    if float(v.generator_efficiency) < 0.90:
+        warnings.append(f"generator efficiency {float(v.generator_efficiency):g} is below 0.90: unusual for a "
+                        "generator of this size (about 0.96-0.98, common practice); check the input")
+    if x9 < float(v.exhaust_quality_limit):
+        warnings.append(f"turbine exhaust wetness {100 * (1 - x9):.1f} % is past the limit of "
+                        f"{100 * (1 - float(v.exhaust_quality_limit)):.0f} %: blade erosion; see the design check")
     t_mean = 0.5 * (float(v.cooling_water_inlet_temperature) + t_cw_out)
     cp_cw = water_cp(t_mean)
     outputs: dict[str, float | str] = {

@@ -604,3 +604,13 @@ def test_bad_input_exit_2(case: tuple, demo_copy: Path, tmp_path: Path, capsys: 
     else:
         assert EXC in err
     assert not site.exists()
+
+
+# --- found by the property tests (tests/test_properties.py) --------------------------------
+
+
+def test_a_regulator_lag_below_a_millisecond_is_refused() -> None:
+    # 2e-309 s made the linearised poles infinite (numpy LinAlgError) before
+    with pytest.raises(InputConflict, match="below 1 ms; give 0 for an ideal"):
+        run(avr_time_constant=2e-309)
+    assert math.isfinite(run(avr_time_constant=0.0).outputs["voltage_rise_time"])

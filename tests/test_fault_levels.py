@@ -178,3 +178,22 @@ def test_bad_input_exit_2(demo_copy: Path, capsys) -> None:
     assert main(["check", str(demo_copy)]) == 2
     err = capsys.readouterr().err
     assert "[net1.grid_fault_level] out of range: 0 MVA given" in err
+
+
+# --- found by the property tests (tests/test_properties.py) --------------------------------
+
+
+def test_motor_start_voltage_is_finite_for_a_vanishing_motor() -> None:
+    # Z = U^2/S* overflowed for a motor of 1e-309 kVA and the divider gave NaN; the admittance
+    # form gives the running-load voltage.  Same divider as |Z_l / (Z_s + Z_l)| for ordinary loads
+    # (hand check of the impedance form, IEEE Std 399-1997 ch. 9 as recalled)
+    z_s = complex(0.002, 0.02)
+    v0, v1 = fl.motor_start_voltages(z_s, 0.9, 0.42, 1e-312, 0.25, 0.69)
+    assert math.isfinite(v1) and v1 == pytest.approx(v0, rel=1e-12)
+    z_l = 0.69**2 / complex(0.9, -0.42)
+    z_m = 0.69**2 / complex(2.4 * 0.25, -2.4 * math.sqrt(1 - 0.25**2))
+    z_par = 1 / (1 / z_l + 1 / z_m)
+    v0, v1 = fl.motor_start_voltages(z_s, 0.9, 0.42, 2.4, 0.25, 0.69)
+    assert v0 == pytest.approx(abs(z_l / (z_s + z_l)), rel=1e-12)
+    assert v1 == pytest.approx(abs(z_par / (z_s + z_par)), rel=1e-12)
+    assert fl.motor_start_voltages(z_s, 0.0, 0.0, 0.0, 0.25, 0.69) == (1.0, 1.0)

@@ -164,3 +164,21 @@ def test_bad_input_exit_2(demo_copy: Path, capsys) -> None:
     assert code == 2, err
     assert f"{rel}:{line}:" in err
     assert re.search(r"\[hydro1\.penstock_diameter\] the penstock head loss \d+\.\d+ m is not below the gross head 7\.5 m", err), err
+
+
+# --- found by the property tests (tests/test_properties.py) --------------------------------
+
+
+def test_a_penstock_losing_over_a_third_of_the_head_is_warned() -> None:
+    # P ~ q (H - h_f (q/q_d)^2) peaks where H = 3 h_f (q/q_d)^2; past a loss of H/3 the design
+    # flow gives less power than a smaller one (the capacity factor can then exceed 1)
+    r = run(penstock_loss_basis="head_loss", penstock_head_loss_given=0.5 * BASE["gross_head"])
+    assert any("more than a third of the gross head" in w for w in r.warnings)
+    r = run(penstock_loss_basis="head_loss", penstock_head_loss_given=0.3 * BASE["gross_head"])
+    assert not any("third of the gross head" in w for w in r.warnings)
+
+
+def test_a_penstock_diameter_in_the_wrong_unit_is_refused() -> None:
+    # 4e-120 m overflowed the velocity (OverflowError) before
+    with pytest.raises(InputConflict, match="penstock diameter 4e-120 m is below 50 mm"):
+        run(penstock_diameter=4e-120)

@@ -118,3 +118,18 @@ def test_bad_input_exit_2(demo_copy: Path, capsys) -> None:
     assert f"{rel}:{line}:" in err
     assert re.search(r"\[plant\.steam_unit_fuel_input\] Steam turbine unit: gross output 12\.5 MW plus heat 0 MW "
                      r"is not below its fuel input 12 MW", err), err
+
+
+# --- found by the property tests (tests/test_properties.py) --------------------------------
+
+
+def test_a_unit_consuming_all_it_makes_is_refused() -> None:
+    with pytest.raises(InputConflict, match=r"Steam turbine unit: auxiliary load 14 MW is not below its gross output 12\.5 MW"):
+        run(steam_unit_auxiliary_load=14.0)
+
+
+def test_a_common_load_above_the_fired_units_net_output_is_refused() -> None:
+    # hydro covers it, but charged to the fired units the net efficiency would be negative
+    # (it was -0.004 before)
+    with pytest.raises(InputConflict, match="common services load 20 MW is not below the fired units"):
+        run(common_auxiliary_load=20.0, hydro_unit_electrical_output=30.0, hydro_unit_water_power=35.0)

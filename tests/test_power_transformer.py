@@ -137,3 +137,26 @@ def test_bad_input_exit_2(demo_copy: Path, capsys) -> None:
     err = capsys.readouterr().err
     line = next(n for n, s in enumerate(p.read_text().splitlines(), 1) if 'load_loss = "150 kW"' in s)
     assert f"inputs/electrical.toml:{line}: [uat1.load_loss]" in err and "is not below the impedance" in err
+
+
+# --- found by the property tests (tests/test_properties.py) --------------------------------
+
+
+def test_a_stated_rating_far_below_the_load_is_refused() -> None:
+    # 5e-324 MVA reached next_r10 with a zero decade (AssertionError) before
+    with pytest.raises(InputConflict, match="below a twentieth of the load"):
+        pt.compute(Values(_uat(stated_rated_power=5e-324)))
+
+
+def test_efficiency_in_per_cent_and_zero_without_active_load() -> None:
+    # eta = P / (P + losses): in per cent (the declared unit); 0 when only reactive power flows
+    out = pt.compute(Values(_uat())).outputs
+    assert 99.0 < out["transformer_efficiency"] < 100.0
+    out = pt.compute(Values(_uat(transformer_active_load=0.0))).outputs
+    assert out["transformer_efficiency"] == 0.0
+
+
+def test_a_source_weaker_than_the_transformer_is_refused() -> None:
+    # 2e-313 MVA made Z_s infinite and the through-fault current 0 before
+    with pytest.raises(InputConflict, match="source fault level 2.23e-313 MVA is below the transformer rating"):
+        pt.compute(Values(_uat(source_fault_level=2.2250738585e-313)))

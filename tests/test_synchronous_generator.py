@@ -408,3 +408,21 @@ def test_module_import_is_light() -> None:
             "bad = [m for m in ('matplotlib', 'pint', 'scipy', 'sympy') if m in sys.modules]; "
             "assert not bad, bad")
     subprocess.run([sys.executable, "-c", code], check=True)
+
+
+# --- found by the property tests (tests/test_properties.py) --------------------------------
+
+
+def test_a_salient_pole_quadrature_reactance_below_0_1_pu_is_refused() -> None:
+    with pytest.raises(InputConflict, match=r"x_q = 1e-300 pu is below 0\.1 pu"):
+        run(rotor_type="salient", quadrature_axis_reactance=1e-300)
+
+
+def test_negative_load_angle_with_resistance_and_near_zero_power_factor() -> None:
+    # E = V + (r + jx) I with I lagging by phi: Im E = I (x cos phi - r sin phi) < 0 when
+    # r sin phi > x cos phi (a physical result; Chapman 5th ed., ch. 4 phasor diagram, from memory)
+    e, delta = sg.internal_emf_cylindrical(1.0, 1.0, 0.002, 0.5, 0.01)
+    assert delta < 0
+    assert math.tan(math.radians(delta)) == pytest.approx(
+        (0.5 * 0.002 - 0.01 * math.sqrt(1 - 0.002**2)) / (1 + 0.5 * math.sqrt(1 - 0.002**2) + 0.01 * 0.002),
+        rel=1e-12)

@@ -107,7 +107,7 @@ def archive(project_root: Path) -> Path:
     dest_parent.mkdir(parents=True, exist_ok=True)
     tmp = Path(tempfile.mkdtemp(prefix=f".{dest.name}.new-", dir=dest_parent))
     try:
-        render_site(proj, runs, tmp / "site", final_out=dest / "site")
+        render_site(proj, runs, tmp / "site", as_snapshot=rev.id)
         for rel in proj.files:
             target = tmp / "project" / rel
             target.parent.mkdir(parents=True, exist_ok=True)

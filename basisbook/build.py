@@ -53,7 +53,7 @@ def build(root: Path, out: Path) -> tuple[int, Path]:
     _guard_out(root, out)
     proj = project_mod.load(root)
     runs = engine.run(proj)
-    files = render_files(proj, runs, out)
+    files = render_files(proj, runs)
     out.parent.mkdir(parents=True, exist_ok=True)
     tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.new-", dir=out.parent))
     try:
@@ -153,6 +153,9 @@ class Builder:
         for base in (root, builtin_templates()):
             for p in sorted(base.rglob("*")):
                 rel = p.relative_to(base)
+                if rel.parts[0] == "archive" and p.name == "manifest.json":
+                    h.update(str(rel).encode() + b"\0" + p.read_bytes() + b"\0")  # a new snapshot
+                    continue
                 if (not p.is_file() or rel.parts[0] in ("archive", "__pycache__")
                         or any(x.startswith(".") for x in rel.parts) or p.resolve().is_relative_to(self.out)):
                     continue
@@ -175,7 +178,7 @@ class Builder:
         runs = engine.run(proj, self.compute_cache)
         rerun = [r.id for r in runs if r.cache_key not in before]
         drawn = self.render_cache.figures_drawn
-        files = render_files(proj, runs, self.out, self.render_cache)
+        files = render_files(proj, runs, self.render_cache)
         written, removed = sync(files, self.out)
         return BuildStats(sum(1 for f in files if f.endswith(".html")), rerun, len(rerun),
                           len(runs) - len(rerun), self.render_cache.figures_drawn - drawn, written, removed)

@@ -11,7 +11,6 @@ from __future__ import annotations
 import html
 import json
 import math
-import os
 from importlib import resources
 from pathlib import Path
 from typing import Any
@@ -410,30 +409,40 @@ def glossary_view(runs: list[CalcRun]) -> dict[str, Any]:
     return {"terms": [terms[k] for k in sorted(terms)]}
 
 
-def _snapshot_href(project: Project, rev_id: str, final_out: Path | None) -> str:
-    """Relative link from the site being built to an archived revision's handbook."""
+def archived_sites(project: Project) -> dict[str, Path]:
+    """Revision id -> the ``site/`` folder of its archived snapshot, for those archived."""
     from basisbook.archive import snapshot_dir
 
-    target = snapshot_dir(project.root, rev_id).resolve() / "site"
-    if final_out is None:
-        return ""
-    if Path(final_out).resolve() == target:
-        return "index.html"  # the snapshot being written is this very site
-    if not (target / "index.html").is_file():
-        return ""
-    return Path(os.path.relpath(target / "index.html", Path(final_out).resolve())).as_posix()
+    out = {}
+    for r in project.revisions:
+        site = snapshot_dir(project.root, r.id) / "site"
+        if (site / "index.html").is_file():
+            out[r.id] = site
+    return out
 
 
-def common_view(project: Project, runs: list[CalcRun], final_out: Path | None = None,
-                has_changes: bool = False) -> dict[str, Any]:
+def _snapshot_href(rev_id: str, archived: dict[str, Path], as_snapshot: str | None) -> str:
+    """Where the revision history links for a revision's archived handbook.
+
+    The live site carries a copy of every archived handbook under ``archive/``, so the link
+    stays inside the site wherever it is moved; a snapshot being written links only to itself.
+    """
+    if as_snapshot is not None:
+        return "index.html" if rev_id == as_snapshot else ""
+    return f"archive/rev-{rev_id}/index.html" if rev_id in archived else ""
+
+
+def common_view(project: Project, runs: list[CalcRun], archived: dict[str, Path] | None = None,
+                has_changes: bool = False, as_snapshot: str | None = None) -> dict[str, Any]:
     rev = project.revision
+    archived = archived or {}
     return {
         "project": {"name": project.name, "client": project.client, "number": project.number},
         "revision": {"id": rev.id, "date": rev.date, "purpose": rev.purpose, "prepared": rev.prepared,
                      "checked": rev.checked, "approved": rev.approved, "notes": markdown(rev.notes)},
         "revisions": [{"id": r.id, "date": r.date, "purpose": r.purpose, "prepared": r.prepared,
                        "checked": r.checked, "approved": r.approved, "notes": markdown(r.notes),
-                       "snapshot": _snapshot_href(project, r.id, final_out)}
+                       "snapshot": _snapshot_href(r.id, archived, as_snapshot)}
                       for r in reversed(project.revisions)],
         "nav": [{"id": r.id, "title": r.instance.title, "href": f"{r.id}.html"} for r in runs],
         "has_changes": has_changes,
@@ -535,18 +544,20 @@ class RenderCache:
         return self.sections[key]
 
 
-def render_files(project: Project, runs: list[CalcRun], final_out: Path | None = None,
-                 cache: RenderCache | None = None) -> dict[str, bytes]:
+def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | None = None,
+                 as_snapshot: str | None = None) -> dict[str, bytes]:
     """Every file of the site as bytes, by relative path (nothing is written here).
 
-    ``final_out`` is where the site will live: links to archived revisions are
-    made relative to it.
+    The live site includes a copy of each archived revision's handbook under
+    ``archive/rev-<id>/``; ``as_snapshot`` (the revision being archived) leaves them out,
+    so snapshots never nest.
     """
     cache = cache or RenderCache()
     cache.start()
     env = cache.environment(project.root)
     cmp = previous_comparison(project, runs)
-    common = common_view(project, runs, final_out, cmp is not None)
+    archived = {} if as_snapshot is not None else archived_sites(project)
+    common = common_view(project, runs, archived, cmp is not None, as_snapshot)
     by_id = {r.id: r for r in runs}
     files: dict[str, bytes] = {}
     rendered: dict[str, str] = {}
@@ -600,6 +611,10 @@ def render_files(project: Project, runs: list[CalcRun], final_out: Path | None =
     files["assets/search-index.js"] = search_index(runs).encode("utf-8")
     doc = results_document(project, runs)
     files["results.json"] = (json.dumps(doc, indent=1, sort_keys=True, ensure_ascii=False) + "\n").encode("utf-8")
+    for rev_id, site in archived.items():
+        for f in sorted(site.rglob("*")):
+            if f.is_file():
+                files[f"archive/rev-{rev_id}/{f.relative_to(site).as_posix()}"] = f.read_bytes()
     files[SITE_MARKER] = b"basisbook site: this folder is replaced on every build\n"
     cache.finish()
     return files
@@ -613,9 +628,9 @@ def write_files(files: dict[str, bytes], out: Path) -> None:
 
 
 def render_site(project: Project, runs: list[CalcRun], out: Path,
-                final_out: Path | None = None) -> list[str]:
+                as_snapshot: str | None = None) -> list[str]:
     """Write the whole site into ``out`` (an empty directory); return the files written."""
-    files = render_files(project, runs, final_out if final_out is not None else out)
+    files = render_files(project, runs, as_snapshot=as_snapshot)
     write_files(files, out)
     return list(files)
 

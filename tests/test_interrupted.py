@@ -70,6 +70,9 @@ def test_killed_builds_leave_the_old_or_the_new_site(demo_copy: Path, tmp_path: 
 
 
 def test_killed_archives_leave_no_half_snapshot(demo_copy: Path, tmp_path: Path) -> None:
+    from conftest import reduce_to_first_revision
+
+    reduce_to_first_revision(demo_copy)
     duration = _timed("archive", str(demo_copy))
     snap = demo_copy / "archive" / "rev-A"
     assert verify(snap).ok

@@ -35,11 +35,10 @@ def _edit(root: Path, rel: str, old: str, new: str) -> None:
 
 
 @pytest.fixture
-def archived(demo_copy: Path) -> Path:
-    """A demo copy whose current revision has been archived."""
-    demo_copy.joinpath("archive").exists() and pytest.fail("demo copy already has an archive")
-    archive(demo_copy)
-    return demo_copy
+def archived(single_revision_copy: Path) -> Path:
+    """A one-revision demo copy whose revision A has just been archived."""
+    archive(single_revision_copy)
+    return single_revision_copy
 
 
 def test_archive_holds_site_inputs_results_and_manifest(archived: Path) -> None:
@@ -94,11 +93,12 @@ def test_archiving_twice_refuses_and_changes_nothing(archived: Path, capsys) -> 
     assert _tree(archived / "archive") == before
 
 
-def test_archive_refuses_invalid_inputs(demo_copy: Path, capsys) -> None:
-    _edit(demo_copy, GEN, "generator_power_factor = 0.8", "generator_power_factor = 1.2")
-    assert main(["archive", str(demo_copy)]) == 2
+def test_archive_refuses_invalid_inputs(single_revision_copy: Path, capsys) -> None:
+    root = single_revision_copy
+    _edit(root, GEN, "generator_power_factor = 0.8", "generator_power_factor = 1.2")
+    assert main(["archive", str(root)]) == 2
     assert "generator_power_factor" in capsys.readouterr().err
-    assert not (demo_copy / "archive").exists() or not any((demo_copy / "archive").iterdir())
+    assert not (root / "archive").exists() or not any((root / "archive").iterdir())
 
 
 @pytest.mark.parametrize(
@@ -159,11 +159,59 @@ def test_changes_page_and_margin_markers(archived: Path, tmp_path: Path) -> None
     assert check_links(site) == []  # including the link into the archived revision A
 
 
-def test_archive_is_byte_identical_for_the_same_inputs(demo_copy: Path, tmp_path: Path) -> None:
+def test_archive_is_byte_identical_for_the_same_inputs(single_revision_copy: Path, tmp_path: Path) -> None:
     import shutil
 
+    root = single_revision_copy
     other = tmp_path / "elsewhere" / "project"
-    shutil.copytree(demo_copy, other)
-    archive(demo_copy)
+    shutil.copytree(root, other)
+    archive(root)
     archive(other)
-    assert (demo_copy / "archive" / "rev-A.zip").read_bytes() == (other / "archive" / "rev-A.zip").read_bytes()
+    assert (root / "archive" / "rev-A.zip").read_bytes() == (other / "archive" / "rev-A.zip").read_bytes()
+
+
+# --- the demo's own two revisions --------------------------------------------------------
+
+DEMO = Path(__file__).resolve().parent.parent / "project"
+
+
+def test_the_shipped_revision_a_is_unchanged() -> None:
+    v = verify(DEMO / "archive" / "rev-A")
+    assert v.ok and v.checked > 40, (v.added, v.missing, v.changed)
+    assert verify(DEMO / "archive" / "rev-A.zip").ok
+
+
+def test_demo_revision_b_is_a_bigger_feed_pump_and_a_new_fuel_analysis() -> None:
+    from basisbook.diff import compare, results_for
+    from basisbook.project import load
+
+    cmp = compare(results_for(DEMO, "A"), results_for(DEMO, "B"), load(DEMO).change_tolerance)
+    # exactly the edits: two fuel inputs and the two feed-pump rows of the load list
+    assert {(c.instance, c.name) for c in cmp.of("input")} == {("cycle1", "fuel_lhv_dry"), ("cycle1", "fuel_moisture")}
+    rows = {c.name: c for c in cmp.of("row")}
+    assert set(rows) == {"load_list[P-101A]", "load_list[P-101B]"}
+    assert rows["load_list[P-101A]"].old == {"rated_power": 315.0} and rows["load_list[P-101A]"].new == {"rated_power": 355.0}
+    assert not cmp.of("site") and not cmp.of("instance")
+    moved = {(c.instance, c.name): c for c in cmp.of("output")}
+    # consequences: more auxiliary demand, so less net export; wetter fuel, so more fuel per hour
+    assert moved[("aux1", "maximum_demand_active")].new > moved[("aux1", "maximum_demand_active")].old
+    assert moved[("plant", "plant_net_export")].new < moved[("plant", "plant_net_export")].old
+    fuel = moved[("cycle1", "fuel_mass_flow")]
+    # ISO 18125 as-received value: 19.0 (1 - 0.45) - 0.02443 * 45 = 9.35065 MJ/kg in A,
+    # 18.6 (1 - 0.50) - 0.02443 * 50 = 8.0785 MJ/kg in B (exact arithmetic); the heat input
+    # moves only a little, so the mass flow rises by about 9.35065 / 8.0785 = 1.157
+    assert moved[("cycle1", "fuel_lhv")].old == pytest.approx(9.35065, rel=1e-9)
+    assert moved[("cycle1", "fuel_lhv")].new == pytest.approx(8.0785, rel=1e-9)
+    assert 1.15 < fuel.new / fuel.old < 1.17
+
+
+def test_the_demo_handbook_shows_the_changes_and_links_the_archived_revision(built_site: Path) -> None:
+    changes = (built_site / "changes.html").read_text(encoding="utf-8")
+    assert "Changes since revision A" in changes and "load_list[P-101A]" in changes
+    index = (built_site / "index.html").read_text(encoding="utf-8")
+    assert 'href="archive/rev-A/index.html"' in index
+    assert (built_site / "archive" / "rev-A" / "index.html").read_bytes() == \
+        (DEMO / "archive" / "rev-A" / "site" / "index.html").read_bytes()
+    cycle = (built_site / "cycle1.html").read_text(encoding="utf-8")
+    assert "changed since rev A: was 45" in cycle  # the margin marker on the moisture input
+    assert check_links(built_site) == []

@@ -70,9 +70,6 @@ def dependency_order(project: Project) -> list[Instance]:
                                         f"or input {out!r}"
                                         f"{_suggest(out, spec.output_names + spec.input_names)}"))
                 continue
-            if target == inst.id:
-                problems.append(Problem(*where, f"link cycle: {inst.id} -> {inst.id}"))
-                continue
             deps[inst.id].append(target)
     if problems:
         raise ProjectError(problems)

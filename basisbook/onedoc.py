@@ -44,11 +44,23 @@ def localise(body: str, page: str, pages: set[str]) -> str:
     return _HREF.sub(href, body)
 
 
-def sections(rendered: dict[str, str], order: list[tuple[str, str]]) -> list[dict[str, str]]:
-    """[(page, title)] -> sections with an anchor, a title and the localised body."""
+def sections(rendered: dict[str, str], order: list[tuple[str, str]],
+             cache: dict[str, tuple[str, str]] | None = None) -> list[dict[str, str]]:
+    """[(page, title)] -> sections with an anchor, a title and the localised body.
+
+    ``cache`` (page -> (page text, body)), kept by a long-lived process, re-makes a
+    section only when its page's text changed; it is left holding this build's pages.
+    """
     pages = {page for page, _ in order}
+    previous = dict(cache or {})
+    if cache is not None:
+        cache.clear()
     out = []
     for page, title in order:
-        body = localise(main_of(rendered[page]), page, pages)
+        text = rendered[page]
+        hit = previous.get(page)
+        body = hit[1] if hit is not None and hit[0] == text else localise(main_of(text), page, pages)
+        if cache is not None:
+            cache[page] = (text, body)
         out.append({"anchor": f"{_prefix(page)}top", "title": title, "body": body})
     return out

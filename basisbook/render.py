@@ -8,7 +8,6 @@ error, never a blank cell.
 
 from __future__ import annotations
 
-import html
 import json
 import math
 from importlib import resources
@@ -509,7 +508,7 @@ class RenderCache:
         self.figures_drawn = 0
         self._used = set()
         self.verification: dict[str, Any] | None = None  # depends on the code only
-        self.sections: dict[tuple[str, int], str] = {}
+        self.sections: dict[str, tuple[str, str]] = {}  # one-document sections by page
 
     def environment(self, project_root: Path) -> Any:
         if self.env is None or self.env_root != project_root:
@@ -535,13 +534,6 @@ class RenderCache:
         if self.verification is None:
             self.verification = verification_view()
         return self.verification
-
-    def localised(self, page: str, text: str, fn: Any) -> str:
-        """A page's one-document section, re-made only when the page's text changed."""
-        key = (page, hash(text))
-        if key not in self.sections:
-            self.sections[key] = fn()
-        return self.sections[key]
 
 
 def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | None = None,
@@ -601,13 +593,8 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
     order += [(f"{r.id}.html", r.instance.title) for r in runs]
     order += [("dependencies.html", "Dependency map"), ("glossary.html", "Glossary"),
               ("verification.html", "Verification appendix")]
-    pages = {pg for pg, _ in order}
-    sections = [{"anchor": f"{onedoc._prefix(pg)}top", "title": title,
-                 "body": Markup(cache.localised(pg, rendered[pg], lambda pg=pg: onedoc.localise(
-                     onedoc.main_of(rendered[pg]), pg, pages)))}
-                for pg, title in order]
-    cache.sections = {k: v for k, v in cache.sections.items() if (k[0], hash(rendered.get(k[0], ""))) == k}
-    page("handbook.html", "handbook.html", "", sections=sections)
+    page("handbook.html", "handbook.html", "", sections=[
+        {**sec, "body": Markup(sec["body"])} for sec in onedoc.sections(rendered, order, cache.sections)])
     files["assets/search-index.js"] = search_index(runs).encode("utf-8")
     doc = results_document(project, runs)
     files["results.json"] = (json.dumps(doc, indent=1, sort_keys=True, ensure_ascii=False) + "\n").encode("utf-8")
@@ -635,4 +622,3 @@ def render_site(project: Project, runs: list[CalcRun], out: Path,
     return list(files)
 
 
-__all__ = ["render_site", "results_document", "html"]

@@ -23,14 +23,6 @@ def _edit(root: Path, rel: str, old: str, new: str) -> None:
     p.write_text(text.replace(old, new, 1), encoding="utf-8")
 
 
-def _line_of(root: Path, rel: str, needle: str) -> int:
-    """The last line holding ``needle`` (the edited one, for a duplicate)."""
-    hits = [n for n, line in enumerate((root / rel).read_text(encoding="utf-8").splitlines(), start=1)
-            if needle in line]
-    assert hits, needle
-    return hits[-1]
-
-
 CORPUS = Path(__file__).resolve().parent / "bad_inputs"
 CASES = sorted(CORPUS.glob("*.toml"))
 

@@ -38,7 +38,9 @@ def chart_key(chart: Chart | EnergyFlow) -> str:
 
 def render_svg(chart: Chart | EnergyFlow, title: str) -> str:
     if isinstance(chart, EnergyFlow):
-        return _render_energy_flow(chart, title)
+        from basisbook.energyflow import svg  # drawn directly: no axes, no matplotlib
+
+        return svg(chart, title)
     return _render_chart(chart, title)
 
 
@@ -52,75 +54,20 @@ def _setup() -> tuple[Any, Any, Any]:
     return matplotlib, FigureCanvasSVG, Figure
 
 
+def warm_up() -> None:
+    """Import matplotlib and draw one throwaway chart, so the font and text caches
+    are loaded before the first real figure (a figure helper does this while the
+    main process is still loading the project)."""
+    from basisbook.spec import Series
+
+    render_svg(Chart(x_label="x", y_label="y", series=[Series("s", [0.0, 1.0], [0.0, 1.0])]), "warm-up")
+
+
 def _svg(fig: Any) -> str:
     # a fixed layout (no "tight" bounding box): one draw instead of two, same bytes every time
     buf = io.StringIO()
     fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None})
     return buf.getvalue()
-
-
-def _render_energy_flow(flow: EnergyFlow, title: str) -> str:
-    """Energy-flow diagram: the inflows stack into one bar on the left; bands of
-    width proportional to energy run to the outflows stacked on the right,
-    products above losses (losses hatched, so print and colour-blind readers
-    see the difference without colour)."""
-    from matplotlib.patches import PathPatch, Rectangle
-    from matplotlib.path import Path as MPath
-
-    from basisbook.mathfmt import number_text, unit_text
-
-    matplotlib, FigureCanvasSVG, Figure = _setup()
-    total_in = sum(v for _, v in flow.inflows)
-    outs = sorted(flow.outflows, key=lambda o: (o[2] != "product",))  # products first, stable
-    total_out = sum(v for _, v, _k in outs)
-    u = unit_text(flow.unit)
-    gap = 0.015 * total_in
-    with matplotlib.rc_context({**_RC, "axes.grid": False}):
-        fig = Figure(figsize=(7.2, 4.6))
-        FigureCanvasSVG(fig)
-        ax = fig.add_axes((0.0, 0.0, 1.0, 0.93))
-        ax.set_axis_off()
-        ax.set_title(textwrap.fill(title, 78), fontsize=10, parse_math=False)
-        # left: inflows stacked top-down; labels kept apart like the outflow labels
-        y = total_in
-        last_in_y = float("inf")
-        for i, (label, v) in enumerate(flow.inflows):
-            ax.add_patch(Rectangle((0.0, y - v), 0.06, v, facecolor=_COLOURS[i % len(_COLOURS)],
-                                   edgecolor="black", linewidth=0.6))
-            ly = min(y - v / 2, last_in_y - 0.09 * total_in)
-            last_in_y = ly
-            ax.text(-0.02, ly, f"{label}\n{number_text(v)} {u}", ha="right", va="center", fontsize=8,
-                    parse_math=False)
-            y -= v
-        # right: outflows stacked top-down with gaps; bands from the left bar
-        left_top = total_in
-        right_top = total_in + gap * (len(outs) - 1) / 2 + (total_in - total_out) / 2
-        last_label_y = float("inf")
-        for label, v, kind in outs:
-            x0, x1 = 0.06, 0.74
-            lt, lb = left_top, left_top - v
-            rt, rb = right_top, right_top - v
-            verts = [(x0, lt), ((x0 + x1) / 2, lt), ((x0 + x1) / 2, rt), (x1, rt),
-                     (x1, rb), ((x0 + x1) / 2, rb), ((x0 + x1) / 2, lb), (x0, lb), (x0, lt)]
-            codes = [MPath.MOVETO, MPath.CURVE4, MPath.CURVE4, MPath.CURVE4, MPath.LINETO,
-                     MPath.CURVE4, MPath.CURVE4, MPath.CURVE4, MPath.CLOSEPOLY]
-            product = kind == "product"
-            ax.add_patch(PathPatch(MPath(verts, codes), facecolor="#c9dbe9" if product else "#f1e2cf",
-                                   edgecolor="#1b4f72" if product else "#8a5a00", linewidth=0.6,
-                                   hatch=None if product else "///", alpha=0.95))
-            ax.add_patch(Rectangle((x1, rb), 0.03, v, facecolor="#1b4f72" if product else "#8a5a00",
-                                   edgecolor="black", linewidth=0.6))
-            # labels never overlap: each sits at least a line below the one above
-            ly = min((rt + rb) / 2, last_label_y - 0.055 * total_in)
-            last_label_y = ly
-            share = 100.0 * v / total_in
-            ax.text(0.79, ly, f"{label}: {number_text(v)} {u} ({share:.1f} %)"
-                    + ("" if product else "  [loss]"), va="center", fontsize=8, parse_math=False)
-            left_top -= v
-            right_top -= v + gap
-        ax.set_xlim(-0.45, 1.45)
-        ax.set_ylim(min(right_top, last_label_y, last_in_y) - 0.05 * total_in, total_in * 1.08)
-        return _svg(fig)
 
 
 _RC = {
@@ -131,6 +78,38 @@ _RC = {
     "axes.grid": True,
     "grid.alpha": 0.35,
 }
+
+
+_LEGEND_FONT = 8  # pt
+_HANDLE = 0.045    # legend line length, fraction of the figure width
+_LEGEND_PITCH = 0.045  # legend row pitch, fraction of the figure height
+
+
+def _legend_shape(chart: Chart) -> tuple[int, int]:
+    """(columns, rows) of the legend: as many columns as the longest label allows."""
+    longest = max((len(s.label) for s in chart.series), default=0)
+    # 0.6 em a character errs wide for DejaVu Sans; 6.4 in wide figure, 0.35 in handle
+    need = 0.35 + longest * 0.6 * _LEGEND_FONT / 72
+    ncol = max(1, min(3, int(5.8 // need)))
+    return ncol, -(-len(chart.series) // ncol)
+
+
+def _legend(fig: Any, chart: Chart, ncol: int, rows: int) -> None:
+    """The legend below the axes (so it never hides a curve), column by column.
+
+    Drawn as plain lines and texts: matplotlib's own legend lays itself out with
+    nested packing boxes, a third of a chart's drawing time.
+    """
+    from matplotlib.lines import Line2D
+
+    width = 0.91 / ncol
+    for i, s in enumerate(chart.series):
+        col, row = divmod(i, rows)
+        x = 0.06 + col * width
+        y = 0.025 + (rows - 1 - row) * _LEGEND_PITCH
+        fig.add_artist(Line2D([x, x + _HANDLE], [y, y], transform=fig.transFigure, linewidth=1.6,
+                              linestyle=_STYLES.get(s.style, "-"), color=_COLOURS[i % len(_COLOURS)]))
+        fig.text(x + _HANDLE + 0.012, y, s.label, va="center", fontsize=_LEGEND_FONT, parse_math=False)
 
 
 def _render_chart(chart: Chart, title: str) -> str:
@@ -152,22 +131,23 @@ def _render_chart(chart: Chart, title: str) -> str:
                         ha="right" if right else "left", fontsize=8, parse_math=False)
         ax.set_xlabel(chart.x_label)
         ax.set_ylabel(chart.y_label)
-        ax.set_title(textwrap.fill(title, 78), fontsize=10, parse_math=False)
+        # a fixed title position: matplotlib otherwise measures every tick label to place it
+        ax.set_title(textwrap.fill(title, 78), fontsize=10, parse_math=False, y=1.0, pad=6)
         if chart.x_range:
             ax.set_xlim(*chart.x_range)
         if chart.y_range:
             ax.set_ylim(*chart.y_range)
         if chart.equal_aspect:
             ax.set_aspect("equal", adjustable="datalim")
+        from matplotlib.ticker import MaxNLocator
+
+        for axis in (ax.xaxis, ax.yaxis):  # about six ticks read well and draw faster than nine
+            axis.set_major_locator(MaxNLocator(nbins=6, steps=[1, 2, 2.5, 5, 10]))
         ax.axhline(0, color="0.3", linewidth=0.6)
         ax.axvline(0, color="0.3", linewidth=0.6)
-        ncol = 3 if max((len(x.label) for x in chart.series), default=0) <= 26 else 2
-        rows = -(-len(chart.series) // ncol)  # legend rows
+        ncol, rows = _legend_shape(chart)
         bottom = 0.13 + 0.045 * rows
         top = 0.93 if len(title) <= 78 else 0.89
         fig.subplots_adjust(left=0.12, right=0.97, top=top, bottom=bottom + 0.04)
-        if chart.series:
-            # below the axes, so the legend never hides a curve
-            fig.legend(loc="lower center", ncol=ncol, fontsize=8, frameon=False,
-                       bbox_to_anchor=(0.5, 0.005))
+        _legend(fig, chart, ncol, rows)
         return _svg(fig)

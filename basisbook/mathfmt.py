@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import math
 import re
+from collections.abc import Callable
 from functools import lru_cache
 
 from basisbook.spec import PLACEHOLDER
@@ -110,12 +111,16 @@ def _explicit_products(expression: str) -> str:
     return _JUXTAPOSED.sub(repl, expression)
 
 
-def substitute_values(expression: str, values: dict[str, tuple[float | str, str]]) -> str:
+def substitute_values(expression: str, values: dict[str, tuple[float | str, str]],
+                      emit: Callable[[str], str] = str) -> str:
+    """The expression with each ``@name`` replaced by its number and unit;
+    ``emit`` turns each quantity's LaTeX into what is inserted (``values_mathml``
+    inserts a slot instead)."""
     expression = _explicit_products(expression)
 
     def repl(m: re.Match[str]) -> str:
         v, unit = values[m.group(1)]
-        q = quantity_latex(v, unit)
+        q = emit(quantity_latex(v, unit))
         if isinstance(v, tuple):
             return "{" + q + "}"
         # a negative number or one with a unit inside a product reads better in brackets,
@@ -137,3 +142,76 @@ def mathml(latex: str, display: bool = False) -> str:
     # upright subscripts and names: the converter italicises a one-letter \mathrm
     latex = _MATHRM.sub(lambda m: r"\text{" + m.group(1) + "}", latex)
     return convert(latex, display="block" if display else "inline")
+
+
+# A slot stands for one quantity while an expression's shape is converted; no
+# expression or unit of ours contains the word.
+_SLOT = r"\text{zqslot%dqz}"
+_SLOT_MATHML = "<mtext>zqslot%dqz</mtext>"
+_ROW, _END = "<mrow>", "</mrow>"
+
+
+def _unwrap(x: str) -> str | None:
+    """The content of ``x`` if it is one <mrow> element, else None."""
+    if not (x.startswith(_ROW) and x.endswith(_END)):
+        return None
+    depth, i = 0, 0
+    while True:
+        o, c = x.find("<mrow", i), x.find(_END, i)
+        if c == -1:
+            return None  # more rows opened than closed
+        if o != -1 and o < c:
+            close = x.index(">", o)
+            # an empty group is written <mrow />: it opens nothing
+            depth, i = depth + (x[close - 1] != "/"), close + 1
+        else:
+            depth, i = depth - 1, c + len(_END)
+            if depth == 0:
+                return x[len(_ROW):-len(_END)] if i == len(x) else None
+
+
+@lru_cache(maxsize=8192)
+def _fragment(latex: str) -> str | None:
+    """What the converter writes for ``{latex}`` inside a row: the content of the
+    group (the <math> element's row and the group's own row taken off), or None
+    if the output does not have that shape."""
+    m = mathml("{" + latex + "}")
+    row = _unwrap(m[m.index(">") + 1: m.rindex("</math>")])
+    return _unwrap(row) if row is not None else None
+
+
+def _assemble(shape: str, quantities: list[str], display: bool) -> str | None:
+    out = mathml(shape, display)
+    for i, q in enumerate(quantities):
+        slot, frag = _SLOT_MATHML % i, _fragment(q)
+        if frag is None or out.count(slot) != 1:
+            return None  # not the shape expected: convert directly
+        out = out.replace(slot, frag)
+    return out
+
+
+def values_mathml(prefix: str, expression: str, values: dict[str, tuple[float | str, str]],
+                  display: bool = True) -> str:
+    """MathML of ``prefix + substitute_values(expression, values)``, put together from
+    cached pieces: the expression's shape with a slot per value (the same for every
+    instance of a calc and every rebuild) and each quantity on its own.  Conversion is
+    most of a page's rendering time, and in ``serve`` only the numbers change.  The
+    result is the converter's own output for the whole line (tested on every step)."""
+    quantities: list[str] = []
+
+    def slot(q: str) -> str:
+        quantities.append(q)
+        return _SLOT % (len(quantities) - 1)
+
+    out = _assemble(prefix + substitute_values(expression, values, slot), quantities, display)
+    return out if out is not None else mathml(prefix + substitute_values(expression, values), display)
+
+
+def quantity_mathml(symbol: str, quantity: str, display: bool = True) -> str:
+    """MathML of a result line ``{symbol} = quantity`` from the cached MathML of the
+    symbol and of the quantity (the same bytes as converting the line whole)."""
+    sym, q = _fragment(symbol), _fragment(quantity)
+    if sym is None or q is None:
+        return mathml("{" + symbol + "} = " + quantity, display)
+    m = mathml("x", display)  # the converter's own <math> element, display attribute included
+    return f"{m[: m.index('>') + 1]}<mrow><mrow>{sym}</mrow><mo>&#x0003D;</mo>{q}</mrow></math>"

@@ -240,3 +240,46 @@ def test_a_calc_that_overflows_gives_a_message_not_a_traceback(demo_copy: Path, 
     expected = ("lead to ZeroDivisionError (float division by zero) in synchronous_generator"
                 if failure == "divide" else "give no finite value for flux_per_pole")
     assert re.search(r"inputs/generators\.toml:\d+: \[stg1\] the inputs of stg1 " + re.escape(expected), err), err
+
+
+def test_assembled_equations_read_the_same_as_direct_conversion() -> None:
+    """Every step of the demo, numbers and result lines: the MathML put together
+    from cached pieces (basisbook.mathfmt.values_mathml) is byte for byte the
+    converter's own output for the whole line (self-consistency, no outside source)."""
+    from basisbook import mathfmt
+    from basisbook.mathfmt import mathml, quantity_latex, quantity_mathml, values_mathml
+
+    runs = engine.run(load(Path(__file__).resolve().parent.parent / "project"))
+    compared = 0
+    for r in runs:
+        spec = r.spec
+        symbols = {i.name: i.symbol for i in spec.inputs} | {o.name: o.symbol for o in spec.outputs}
+        units = {i.name: i.unit for i in spec.inputs} | {o.name: o.unit for o in spec.outputs}
+        values = ({k: (v.value, units[k]) for k, v in r.inputs.items()}
+                  | {k: (v, units[k]) for k, v in r.outputs.items()})
+        for s in spec.steps:
+            lhs = "{" + symbols[s.output] + "} = "
+            direct = mathml(lhs + substitute_values(s.expression, values), True)
+            assert values_mathml(lhs, s.expression, values) == direct, s.output
+            quantities: list[str] = []
+            shape = lhs + substitute_values(s.expression, values,
+                                            lambda q, qs=quantities: qs.append(q) or mathfmt._SLOT % (len(qs) - 1))
+            assert mathfmt._assemble(shape, quantities, True) is not None, s.output  # not the fallback
+            q = quantity_latex(r.outputs[s.output], units[s.output])
+            assert quantity_mathml(symbols[s.output], q) == mathml(lhs + q, True), s.output
+            compared += 1
+    assert compared > 300  # every module's steps took part
+
+
+@pytest.mark.parametrize(("text", "content"), [
+    ("<mrow>a</mrow>", "a"),
+    ("<mrow><mrow>a</mrow></mrow>", "<mrow>a</mrow>"),
+    ("<mrow><mrow />a</mrow>", "<mrow />a"),          # an empty group opens nothing
+    ("<mrow>a</mrow><mrow>b</mrow>", None),            # two rows, not one
+    ("<mrow><mrow>a</mrow>", None),                    # unbalanced
+    ("<mi>a</mi>", None),
+])
+def test_unwrap_takes_off_exactly_one_row(text: str, content: str | None) -> None:
+    from basisbook.mathfmt import _unwrap
+
+    assert _unwrap(text) == content

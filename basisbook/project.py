@@ -21,6 +21,7 @@ import math
 import re
 import tomllib
 from dataclasses import dataclass, field
+from functools import lru_cache
 from pathlib import Path
 from typing import Any
 
@@ -161,14 +162,20 @@ def _read_toml(path: Path, rel: str, out: _Collector) -> tuple[dict[str, Any], d
         out.add(rel, line, "", "the file is not UTF-8 text (save it as UTF-8)")
         return None
     try:
-        data = tomllib.loads(text)
+        return _parse_toml(text)
     except tomllib.TOMLDecodeError as exc:
         msg = str(exc)
         m = re.search(r"\(at line (\d+), column (\d+)\)", msg)
         line = int(m.group(1)) if m else None
         out.add(rel, line, "", f"not valid TOML: {re.sub(r' *[(]at line.*', '', msg)}")
         return None
-    return data, key_lines(text)
+
+
+@lru_cache(maxsize=256)
+def _parse_toml(text: str) -> tuple[dict[str, Any], dict]:
+    """Parsed TOML and its key lines, cached by the text (``serve`` reads unchanged
+    files again on every rebuild).  The loader only reads what it returns."""
+    return tomllib.loads(text), key_lines(text)
 
 
 def _text(value: Any, rel: str, line: int | None, key: str, out: _Collector) -> str:

@@ -35,15 +35,30 @@ def display_lines(path: Path) -> list[str]:
     return path.read_text(encoding="utf-8-sig").splitlines()
 
 
-def _xlsx_rows(path: Path) -> list[tuple[int, list[Any]]]:
-    import openpyxl
+_XLSX_CACHE: dict[bytes, list[tuple[int, list[Any]]]] = {}
 
-    wb = openpyxl.load_workbook(path, read_only=True, data_only=True)
-    try:
-        ws = wb.worksheets[0]
-        return [(i, list(r)) for i, r in enumerate(ws.iter_rows(values_only=True), start=1)]
-    finally:
-        wb.close()
+
+def _xlsx_rows(path: Path) -> list[tuple[int, list[Any]]]:
+    """The first sheet's rows as (row number, cell values); cached by the file's
+    content hash, since ``serve`` reads an unchanged workbook again on every rebuild."""
+    import hashlib
+    import io
+
+    data = path.read_bytes()
+    digest = hashlib.sha256(data).digest()
+    if digest not in _XLSX_CACHE:
+        import openpyxl
+
+        wb = openpyxl.load_workbook(io.BytesIO(data), read_only=True, data_only=True)
+        try:
+            ws = wb.worksheets[0]
+            rows = [(i, list(r)) for i, r in enumerate(ws.iter_rows(values_only=True), start=1)]
+        finally:
+            wb.close()
+        if len(_XLSX_CACHE) > 32:  # bounded: a long session edits many versions
+            _XLSX_CACHE.clear()
+        _XLSX_CACHE[digest] = rows
+    return [(i, list(cells)) for i, cells in _XLSX_CACHE[digest]]  # callers get their own lists
 
 
 def load_records(decl: Input, raw: Any, root: Path, toml_file: str, toml_line: int | None,

@@ -62,7 +62,10 @@ def to_unit(value: Any, unit: str) -> float:
     return x
 
 
+@lru_cache(maxsize=65536)
 def _parse_string(text: str, unit: str) -> float:
+    # cached: a rebuild in ``serve`` reads the same strings again, and pint parsing
+    # is the bulk of loading a project (a failure raises, so is never cached)
     s = text.strip()
     if s.lower() in ("nan", "inf", "+inf", "-inf", "infinity"):
         raise UnitProblem(f"expected a finite number, got {text!r}")

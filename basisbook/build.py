@@ -21,6 +21,7 @@ from pathlib import Path
 from basisbook import engine
 from basisbook import project as project_mod
 from basisbook.errors import Problem, ProjectError
+from basisbook.figure_worker import FigureWorker
 from basisbook.render import SITE_MARKER, RenderCache, render_files, write_files
 
 
@@ -51,9 +52,15 @@ def build(root: Path, out: Path) -> tuple[int, Path]:
     out = Path(out).resolve()
     recover(out)
     _guard_out(root, out)
-    proj = project_mod.load(root)
-    runs = engine.run(proj)
-    files = render_files(proj, runs)
+    # forked before the project loads, so the helper's matplotlib import overlaps it
+    cache = RenderCache(FigureWorker.start())
+    try:
+        proj = project_mod.load(root)
+        cache.start()
+        runs = engine.run(proj, on_run=cache.request_run)  # figures go to the helper as they come
+        files = render_files(proj, runs, cache)
+    finally:
+        cache.close()
     out.parent.mkdir(parents=True, exist_ok=True)
     tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.new-", dir=out.parent))
     try:
@@ -136,9 +143,20 @@ class Builder:
         self.root = Path(root)
         self.out = Path(out).resolve()
         self.compute_cache: dict[str, object] = {}
-        self.render_cache = RenderCache()
+        self.render_cache = RenderCache(FigureWorker.start(), remember_pages=True)
         self._fingerprint = ""
+        self._known: dict[str, tuple[bytes, int, int]] = {}  # what the last sync wrote
         self._last: BuildStats | None = None
+
+    def close(self) -> None:
+        """Stop the figure helper process (it also stops by itself when this process ends)."""
+        self.render_cache.close()
+
+    def __enter__(self) -> Builder:
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        self.close()
 
     def fingerprint(self) -> str:
         """A hash of every file that can shape the site: the project folder (not its
@@ -175,26 +193,46 @@ class Builder:
         _guard_out(self.root, self.out)
         proj = project_mod.load(self.root)  # raises ProjectError: nothing written
         before = set(self.compute_cache)
-        runs = engine.run(proj, self.compute_cache)
-        rerun = [r.id for r in runs if r.cache_key not in before]
         drawn = self.render_cache.figures_drawn
-        files = render_files(proj, runs, self.render_cache)
-        written, removed = sync(files, self.out)
+        self.render_cache.start()
+        try:
+            runs = engine.run(proj, self.compute_cache, on_run=self.render_cache.request_run)
+            files = render_files(proj, runs, self.render_cache)
+        except BaseException:
+            self.render_cache.abort()
+            raise
+        rerun = [r.id for r in runs if r.cache_key not in before]
+        written, removed = sync(files, self.out, self._known)
         return BuildStats(sum(1 for f in files if f.endswith(".html")), rerun, len(rerun),
                           len(runs) - len(rerun), self.render_cache.figures_drawn - drawn, written, removed)
 
 
-def sync(files: dict[str, bytes], out: Path) -> tuple[int, int]:
+def sync(files: dict[str, bytes], out: Path,
+         known: dict[str, tuple[bytes, int, int]] | None = None) -> tuple[int, int]:
     """Make ``out`` hold exactly ``files``: write changed bytes only, remove the rest.
 
-    Each file is replaced by rename, so a reader never sees half a file.
+    Each file is replaced by rename, so a reader never sees half a file.  ``known``
+    (kept by a long-lived builder) remembers what the last sync wrote, as (bytes,
+    size, mtime): a file whose size and mtime are still those is compared in memory
+    instead of being read back; it is updated to this sync's files.
     """
     out.mkdir(parents=True, exist_ok=True)
+    previous = dict(known or {})
+    if known is not None:
+        known.clear()
     written = 0
     for rel, data in files.items():
         path = out / rel
         try:
-            if path.read_bytes() == data:
+            st = path.stat()
+            was = previous.get(rel)
+            if was is not None and (was[1], was[2]) == (st.st_size, st.st_mtime_ns):
+                same = was[0] == data
+            else:
+                same = st.st_size == len(data) and path.read_bytes() == data
+            if same:
+                if known is not None:
+                    known[rel] = (data, st.st_size, st.st_mtime_ns)
                 continue
         except OSError:
             pass
@@ -202,6 +240,9 @@ def sync(files: dict[str, bytes], out: Path) -> tuple[int, int]:
         tmp = path.with_name(f".{path.name}.part")
         tmp.write_bytes(data)
         os.replace(tmp, path)
+        if known is not None:
+            st = path.stat()
+            known[rel] = (data, st.st_size, st.st_mtime_ns)
         written += 1
     removed = 0
     for path in sorted(out.rglob("*"), reverse=True):

@@ -8,6 +8,7 @@ the order the calcs ran, which the renderer turns into pages.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass, field
 
 from basisbook import catalog
@@ -124,12 +125,15 @@ def _cache_key(kind: str, inputs: dict[str, InputValue]) -> str:
     return kind + "|" + "|".join(f"{k}={v.value!r}" for k, v in sorted(inputs.items()))
 
 
-def run(project: Project, cache: dict[str, object] | None = None) -> list[CalcRun]:
+def run(project: Project, cache: dict[str, object] | None = None,
+        on_run: Callable[[CalcRun], None] | None = None) -> list[CalcRun]:
     """Run every instance; raise ProjectError for any input problem found on the way.
 
     ``cache`` (kept by a long-lived process) maps a calc kind and its exact input
     values to the Result computed before: an unchanged calc is not run again.
     Entries the run did not use are dropped, so the cache stays small.
+    ``on_run`` is told of each finished run at once (a build sends its figures to
+    the drawing helper while later calcs are still running).
     """
     used: dict[str, object] = {}
     order = dependency_order(project)
@@ -211,6 +215,8 @@ def run(project: Project, cache: dict[str, object] | None = None) -> list[CalcRu
             checks.append(evaluate_check(c, float(result.outputs[c.value]), float(limit)))
         runs[inst.id] = CalcRun(inst, inputs, dict(result.outputs), checks, dict(result.charts),
                                 dict(result.tables), list(result.warnings), cache_key=key)
+        if on_run is not None and not problems:
+            on_run(runs[inst.id])
     if cache is not None:
         cache.clear()
         cache.update(used)

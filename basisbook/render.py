@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import json
 import math
+from functools import lru_cache
 from importlib import resources
 from pathlib import Path
 from typing import Any
@@ -23,12 +24,13 @@ from basisbook.mathfmt import (
     mathml,
     number_text,
     quantity_latex,
+    quantity_mathml,
     substitute,
-    substitute_values,
     unit_text,
+    values_mathml,
 )
 from basisbook.project import InputValue, Project
-from basisbook.spec import Record, SingleLine, SourceRow
+from basisbook.spec import EnergyFlow, Record, SingleLine, SourceRow
 
 SITE_MARKER = ".basisbook-site"
 
@@ -69,6 +71,7 @@ def _safe_link(url: str) -> bool:
     return ".." not in u.replace("\\", "/").split("/")
 
 
+@lru_cache(maxsize=1024)
 def markdown(text: str) -> Markup:
     global _MD
     if _MD is None:
@@ -118,6 +121,7 @@ def _cell(v: Any) -> dict[str, Any]:
     return {"text": str(v), "href": "", "num": False}
 
 
+@lru_cache(maxsize=4096)
 def _plain_symbol(latex: str) -> str:
     """LaTeX symbol as searchable text: S_\\mathrm{r} -> S_r, \\cos\\varphi -> cos varphi."""
     import re
@@ -234,8 +238,9 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Comparison | No
         steps.append({
             "n": i, "output": s.output, "anchor": f"step-{s.output}",
             "symbolic": _math(lhs + " = " + substitute(s.expression, symbols), True),
-            "numeric": _math(lhs + " = " + substitute_values(s.expression, values), True),
-            "result": _math(lhs + " = " + quantity_latex(run.outputs[s.output], units[s.output]), True),
+            "numeric": Markup(values_mathml(lhs + " = ", s.expression, values)),
+            "result": Markup(quantity_mathml(symbols[s.output],
+                                             quantity_latex(run.outputs[s.output], units[s.output]))),
             "source": _cite(ref.citation, s.locator), "source_key": ref.key, "locator": "", "note": s.note,
         })
     stepped = {s.output for s in spec.steps}
@@ -497,38 +502,130 @@ def previous_comparison(project: Project, runs: list[CalcRun]) -> Comparison | N
     return compare(old, new, project.change_tolerance)
 
 
+def figure_jobs(run: CalcRun) -> list[tuple[str, Any, str]]:
+    """(site path, chart, title) of each drawn figure of a run (single-line diagrams are inline)."""
+    return [(f"fig/{run.id}-{f.name}.svg", run.charts[f.name], f"{run.instance.title}: {f.title}")
+            for f in run.spec.figures if f.name in run.charts and not isinstance(run.charts[f.name], SingleLine)]
+
+
 class RenderCache:
     """What a long-lived process (serve) keeps between builds: the Jinja
-    environment and every figure's SVG by a hash of its data."""
+    environment, every figure's SVG by a hash of its data, and the figure helper
+    process (basisbook/figure_worker.py) when there is one."""
 
-    def __init__(self) -> None:
+    def __init__(self, worker: Any = None, remember_pages: bool = False) -> None:
         self.env: Any = None
         self.env_root: Path | None = None
         self.figures: dict[str, str] = {}
         self.figures_drawn = 0
-        self._used = set()
+        self.worker = worker
+        self._used: set[str] = set()
+        self._waiting: dict[str, tuple[Any, str]] = {}
+        self._building = False
+        self._chart_keys: dict[int, tuple[Any, str]] = {}
+        self._pages: dict[str, str] = {}  # rendered pages by a hash of template and context
+        self.templates_stamp = ""
+        self.remember_pages = remember_pages  # worth its hashing only across builds (serve)
         self.verification: dict[str, Any] | None = None  # depends on the code only
         self.sections: dict[str, tuple[str, str]] = {}  # one-document sections by page
 
     def environment(self, project_root: Path) -> Any:
         if self.env is None or self.env_root != project_root:
             self.env, self.env_root = environment(project_root), project_root
+        # the pages cached below are only as good as the templates they came from
+        stamp = []
+        for folder in (builtin_templates(), project_root / "templates"):
+            if folder.is_dir():
+                for f in sorted(folder.rglob("*")):
+                    if f.is_file():
+                        st = f.stat()
+                        stamp.append(f"{f}:{st.st_mtime_ns}:{st.st_size}")
+        self.templates_stamp = "\n".join(stamp)
         return self.env
 
-    def figure(self, chart: Any, title: str) -> str:
-        key = figures.chart_key(chart) + "|" + title
-        if key not in self.figures:
+    def figure_key(self, chart: Any, title: str) -> str:
+        # a calc reused from the compute cache hands back the very same chart object;
+        # hashing its data again is skipped (the object is kept, so its id stays unique)
+        hit = self._chart_keys.get(id(chart))
+        if hit is None or hit[0] is not chart:
+            hit = (chart, figures.chart_key(chart))
+        self._next_chart_keys[id(chart)] = hit
+        return hit[1] + "|" + title
+
+    def page(self, env: Any, template: str, context: dict[str, Any]) -> str:
+        """A rendered page, re-rendered only when its context or the templates changed.
+
+        The key is the context's repr: everything a template can see is plain data
+        (strings, numbers, lists, dicts), whose repr is exact and complete.
+        """
+        import hashlib
+
+        if not self.remember_pages:
+            return env.get_template(template).render(**context)
+        key = hashlib.sha256("\0".join((self.templates_stamp, template, repr(sorted(context.items()))))
+                             .encode()).hexdigest()
+        text = self._pages.get(key)
+        if text is None:
+            text = env.get_template(template).render(**context)
+        self._next_pages[key] = text
+        return text
+
+    def request(self, chart: Any, title: str) -> str:
+        """Ask for a figure: drawn at once, or sent to the helper (``fetch`` collects it)."""
+        key = self.figure_key(chart, title)
+        self._used.add(key)
+        if key in self.figures or key in self._waiting:
+            return key
+        # energy-flow diagrams are written directly (well under a millisecond): never sent
+        if self.worker is not None and not isinstance(chart, EnergyFlow) and self.worker.submit(key, chart, title):
+            self._waiting[key] = (chart, title)
+        else:
             self.figures[key] = figures.render_svg(chart, title)
             self.figures_drawn += 1
-        self._used.add(key)
-        return self.figures[key]
+        return key
+
+    def request_run(self, run: CalcRun) -> None:
+        """Send a finished run's figures ahead (``engine.run(on_run=...)``)."""
+        if self.worker is not None:
+            for _rel, chart, title in figure_jobs(run):
+                self.request(chart, title)
+
+    def fetch(self) -> None:
+        """Collect what the helper drew; draw here whatever it could not deliver
+        (which raises the real error if the chart itself is at fault)."""
+        if not self._waiting:
+            return
+        got = self.worker.collect() if self.worker is not None else {}
+        for key, (chart, title) in self._waiting.items():
+            svg = got.get(key)
+            self.figures[key] = svg if svg is not None else figures.render_svg(chart, title)
+            self.figures_drawn += 1
+        self._waiting = {}
 
     def start(self) -> None:
-        self._used: set[str] = set()
+        """Begin a build (a no-op if the build already began it to send figures ahead)."""
+        if self._building:
+            return
+        self._building = True
+        self._used = set()
+        self._waiting = {}
+        self._next_chart_keys: dict[int, tuple[Any, str]] = {}
+        self._next_pages: dict[str, str] = {}
 
     def finish(self) -> None:
         """Forget figures the last build did not use (memory stays bounded)."""
         self.figures = {k: v for k, v in self.figures.items() if k in self._used}
+        self._chart_keys, self._pages = self._next_chart_keys, self._next_pages  # this build's only
+        self._building = False
+
+    def abort(self) -> None:
+        """A build failed part-way: the next one starts afresh."""
+        self._building = False
+
+    def close(self) -> None:
+        if self.worker is not None:
+            self.worker.close()
+            self.worker = None
 
     def verification_view(self) -> dict[str, Any]:
         if self.verification is None:
@@ -553,9 +650,12 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
     by_id = {r.id: r for r in runs}
     files: dict[str, bytes] = {}
     rendered: dict[str, str] = {}
+    # figures first (if a build has not already sent them while the calcs ran): the
+    # helper process draws them while the pages below are rendered
+    figure_files = {rel: cache.request(chart, title) for r in runs for rel, chart, title in figure_jobs(r)}
 
     def page(rel: str, template: str, root: str, **ctx: Any) -> None:
-        text = env.get_template(template).render(root=root, page=rel, **common, **ctx)
+        text = cache.page(env, template, {"root": root, "page": rel, **common, **ctx})
         files[rel] = text.encode("utf-8")
         rendered[rel] = text
 
@@ -568,9 +668,9 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
     for r in runs:
         page(f"{r.id}.html", "calc.html", "", calc=calc_view(r, by_id, cmp))
         for f in r.spec.figures:
-            if f.name in r.charts and not isinstance(r.charts[f.name], SingleLine):
-                svg = cache.figure(r.charts[f.name], f"{r.instance.title}: {f.title}")
-                files[f"fig/{r.id}-{f.name}.svg"] = svg.encode("utf-8")
+            rel = f"fig/{r.id}-{f.name}.svg"
+            if rel in figure_files:
+                files[rel] = b""  # filled in below, once the helper has delivered
         for t in r.spec.tables:
             if t.name in r.tables:
                 files[f"tables/{r.id}-{t.name}.csv"] = table_csv(r.tables[t.name]).encode("utf-8")
@@ -593,8 +693,11 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
     order += [(f"{r.id}.html", r.instance.title) for r in runs]
     order += [("dependencies.html", "Dependency map"), ("glossary.html", "Glossary"),
               ("verification.html", "Verification appendix")]
-    page("handbook.html", "handbook.html", "", sections=[
-        {**sec, "body": Markup(sec["body"])} for sec in onedoc.sections(rendered, order, cache.sections)])
+    # the one-document view changes whenever any page does: rendered, never looked up
+    files["handbook.html"] = env.get_template("handbook.html").render(
+        root="", page="handbook.html", **common, sections=[
+            {**sec, "body": Markup(sec["body"])} for sec in onedoc.sections(rendered, order, cache.sections)]
+    ).encode("utf-8")
     files["assets/search-index.js"] = search_index(runs).encode("utf-8")
     doc = results_document(project, runs)
     files["results.json"] = (json.dumps(doc, indent=1, sort_keys=True, ensure_ascii=False) + "\n").encode("utf-8")
@@ -603,6 +706,9 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
             if f.is_file():
                 files[f"archive/rev-{rev_id}/{f.relative_to(site).as_posix()}"] = f.read_bytes()
     files[SITE_MARKER] = b"basisbook site: this folder is replaced on every build\n"
+    cache.fetch()
+    for rel, key in figure_files.items():
+        files[rel] = cache.figures[key].encode("utf-8")
     cache.finish()
     return files
 

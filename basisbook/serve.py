@@ -157,6 +157,7 @@ def serve(root: Path, out: Path, port: int = 8765) -> int:
     except ProjectError as exc:
         print(_problems_text(exc), file=sys.stderr)
         if not (builder.out / "index.html").is_file():
+            builder.close()
             raise  # nothing good to show yet
         state.error = _problems_text(exc)
     else:
@@ -175,4 +176,6 @@ def serve(root: Path, out: Path, port: int = 8765) -> int:
     finally:
         stop.set()
         httpd.server_close()
+        watcher.join(timeout=5)
+        builder.close()
     return 0

@@ -1,0 +1,130 @@
+"""Draw the matplotlib figures in a helper process while this one renders pages.
+
+Half of a cold build is matplotlib (about 40 ms a chart, plus its import) and the
+machines have two cores, so a build forks one helper as early as it can: the
+helper imports matplotlib while the main process loads the project and runs the
+calcs, then draws the charts it is sent while the main process writes the pages.
+
+Protocol, over one pipe: the main process sends ``(key, chart, title)`` jobs and
+then ``FLUSH``; the helper answers with one list of ``(key, svg or None)``.  A
+reader thread in the helper drains the pipe at once, so the main process never
+waits on a send while the helper draws.  ``None`` (the chart failed to draw)
+and a dead or missing helper both fall back to drawing in the main process,
+which then raises the real error: the site is the same bytes either way.
+
+The helper is used only where fork is safe and useful: Linux, two or more CPUs,
+and ``BASISBOOK_PROCESSES`` not set to 1.  It ignores Ctrl-C (the main process
+owns the terminal) and exits when its pipe closes, so a killed build never
+leaves it behind.
+"""
+
+from __future__ import annotations
+
+import os
+import sys
+from typing import Any
+
+FLUSH = "flush"
+
+
+def wanted() -> bool:
+    """Whether a build should fork a figure helper on this machine."""
+    if os.environ.get("BASISBOOK_PROCESSES", "").strip() == "1":
+        return False
+    return sys.platform.startswith("linux") and (os.cpu_count() or 1) >= 2
+
+
+def _serve(conn: Any, parent_end: Any) -> None:
+    """The helper's loop (runs in the forked process)."""
+    import queue
+    import signal
+    import threading
+
+    parent_end.close()  # else the pipe never reports the main process gone
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    jobs: queue.Queue[Any] = queue.Queue()
+
+    def read() -> None:
+        try:
+            while True:
+                jobs.put(conn.recv())
+        except (EOFError, OSError):
+            jobs.put(None)  # the main process is gone or closed the pipe
+
+    threading.Thread(target=read, daemon=True).start()
+    from basisbook import figures
+
+    figures.warm_up()  # the import, overlapped with the main process's loading
+    done: list[tuple[str, str | None]] = []
+    while True:
+        job = jobs.get()
+        if job is None:
+            return
+        if job == FLUSH:
+            try:
+                conn.send(done)
+            except (BrokenPipeError, OSError):
+                return
+            done = []
+            continue
+        key, chart, title = job
+        try:
+            done.append((key, figures.render_svg(chart, title)))
+        except Exception:  # noqa: BLE001 - the main process redraws it and raises the real error
+            done.append((key, None))
+
+
+class FigureWorker:
+    """One forked helper process; ``start()`` returns None where it is not wanted."""
+
+    def __init__(self, proc: Any, conn: Any) -> None:
+        self._proc = proc
+        self._conn = conn
+        self._sent: list[str] = []
+
+    @classmethod
+    def start(cls) -> FigureWorker | None:
+        if not wanted():
+            return None
+        import multiprocessing
+
+        try:
+            ctx = multiprocessing.get_context("fork")
+            mine, theirs = ctx.Pipe(duplex=True)
+            proc = ctx.Process(target=_serve, args=(theirs, mine), name="basisbook-figures", daemon=True)
+            proc.start()
+        except (OSError, ValueError):
+            return None
+        theirs.close()
+        return cls(proc, mine)
+
+    def submit(self, key: str, chart: Any, title: str) -> bool:
+        """Queue one chart; False if the helper is gone (draw it here instead)."""
+        try:
+            self._conn.send((key, chart, title))
+        except (OSError, ValueError):
+            return False
+        self._sent.append(key)
+        return True
+
+    def collect(self) -> dict[str, str | None]:
+        """Every chart submitted since the last collect, by key; a chart the helper
+        could not deliver maps to None."""
+        sent, self._sent = self._sent, []
+        if not sent:
+            return {}
+        try:
+            self._conn.send(FLUSH)
+            got = dict(self._conn.recv())
+        except (EOFError, OSError, ValueError):
+            got = {}
+        return {k: got.get(k) for k in sent}
+
+    def close(self) -> None:
+        try:
+            self._conn.close()
+        finally:
+            self._proc.join(timeout=5)
+            if self._proc.is_alive():
+                self._proc.kill()
+                self._proc.join()

@@ -1,8 +1,12 @@
 """Measure what a cold build costs on this machine, against the floor set by imports alone.
 
 Every number is a whole-process wall time of a fresh subprocess (what a user waits for),
-taken as the median of --runs runs; peak memory is the child's own max RSS from
-os.wait4, so the benchmark process itself never inflates it.  Nothing is asserted:
+taken as the median of --runs runs.  CPU s is user + system time of the command and
+its figure helper (more than the wall time when both cores work).  Peak RSS is the
+command's own process (os.wait4); "all processes" is the largest sum of PSS over its
+whole process tree, sampled every 50 ms (bench/_measure.py).  The bytecode of
+basisbook/ and calcs/ is written first, as an installed package has it (the floor's
+libraries come precompiled from pip).  Nothing is asserted:
 this prints numbers for a human (or --json for a script) to compare over time.
 
     python bench/bench.py [--runs 5] [--project project] [--json]
@@ -16,28 +20,22 @@ import os
 import platform
 import shutil
 import statistics
-import subprocess
 import sys
 import tempfile
-import time
 from collections.abc import Callable
 from dataclasses import asdict, dataclass
 from pathlib import Path
 from typing import Any
 
 ROOT = Path(__file__).resolve().parent.parent
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+from _measure import Sample, precompile, run_tree  # noqa: E402
 
 # The libraries a full build cannot avoid; a build can never start faster than this.
 IMPORT_FLOOR = (
     "import jinja2, markdown_it, matplotlib, matplotlib.figure, matplotlib.backends.backend_svg, "
     "numpy, pint, latex2mathml.converter, CoolProp.CoolProp; pint.UnitRegistry()"
 )
-
-
-@dataclass
-class Sample:
-    wall_s: float
-    max_rss_mb: float
 
 
 @dataclass
@@ -62,22 +60,17 @@ class Measure:
     def peak_rss_mb(self) -> float:
         return max(s.max_rss_mb for s in self.samples)
 
+    @property
+    def cpu_s(self) -> float:
+        return statistics.median(s.cpu_s for s in self.samples)
+
+    @property
+    def tree_peak_mb(self) -> float:
+        return max(s.tree_peak_mb for s in self.samples)
+
 
 def run_child(cmd: list[str], cwd: Path) -> Sample:
-    """Run one subprocess to completion; its wall time and its own peak RSS."""
-    with tempfile.TemporaryFile() as err:
-        start = time.perf_counter()
-        proc = subprocess.Popen(cmd, cwd=cwd, stdout=subprocess.DEVNULL, stderr=err)
-        # wait4 reaps the child and returns its rusage alone (RUSAGE_CHILDREN would
-        # accumulate the maximum over every child run so far)
-        _, status, usage = os.wait4(proc.pid, 0)
-        wall = time.perf_counter() - start
-        proc.returncode = os.waitstatus_to_exitcode(status)  # tell Popen it is reaped
-        if proc.returncode != 0:
-            err.seek(0)
-            tail = err.read().decode("utf-8", "replace")[-2000:]
-            raise SystemExit(f"command failed ({proc.returncode}): {' '.join(cmd)}\n{tail}")
-    return Sample(wall, usage.ru_maxrss / 1024)  # Linux reports kilobytes
+    return run_tree(cmd, cwd)
 
 
 def measure(commands: dict[str, Callable[[int], list[str]]], runs: int, cwd: Path) -> list[Measure]:
@@ -101,6 +94,7 @@ def bench(project: Path, runs: int) -> dict[str, Any]:
     if not (project / "project.toml").is_file():
         raise SystemExit(f"{project}: not a project folder (no project.toml)")
     tool = basisbook_cmd()
+    precompile(ROOT)
     with tempfile.TemporaryDirectory(prefix="basisbook-bench-") as tmp:
         scratch = Path(tmp)
         # run from an empty folder so nothing in the current directory is picked up;
@@ -119,7 +113,8 @@ def bench(project: Path, runs: int) -> dict[str, Any]:
         "runs": runs,
         "results": {
             m.name: {"median_s": round(m.median_s, 4), "min_s": round(m.min_s, 4), "max_s": round(m.max_s, 4),
-                     "peak_rss_mb": round(m.peak_rss_mb, 1), "command": m.command,
+                     "peak_rss_mb": round(m.peak_rss_mb, 1), "cpu_s": round(m.cpu_s, 4),
+                     "tree_peak_pss_mb": round(m.tree_peak_mb, 1), "command": m.command,
                      "samples": [asdict(s) for s in m.samples]}
             for m in rows
         },
@@ -139,12 +134,13 @@ def table(doc: dict[str, Any]) -> str:
         f"python {doc['machine']['python']} on {doc['machine']['platform']}, {doc['machine']['cpus']} CPUs, "
         f"median of {doc['runs']} runs (whole-process wall time)",
         "",
-        f"{'measure':<16} {'median s':>9} {'min s':>7} {'max s':>7} {'peak RSS MB':>12}",
+        f"{'measure':<16} {'median s':>9} {'min s':>7} {'max s':>7} {'CPU s':>7} {'peak RSS MB':>12} "
+        f"{'all processes MB':>17}",
     ]
     for name in ("python -c pass", "import floor", "cold build", "check"):
         m = r[name]
         lines.append(f"{name:<16} {m['median_s']:>9.3f} {m['min_s']:>7.3f} {m['max_s']:>7.3f} "
-                     f"{m['peak_rss_mb']:>12.1f}")
+                     f"{m['cpu_s']:>7.3f} {m['peak_rss_mb']:>12.1f} {m['tree_peak_pss_mb']:>17.1f}")
     lines += [
         "",
         f"cold build / import floor   {q['cold_build_over_import_floor']:.2f}x",

@@ -20,10 +20,8 @@ import csv
 import io
 import json
 import math
-import os
 import re
 import shutil
-import subprocess
 import sys
 import tempfile
 import time
@@ -32,17 +30,15 @@ from typing import Any
 
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+from _measure import precompile, run_tree  # noqa: E402
 
 
 def _child(cmd: list[str]) -> tuple[float, float]:
-    """Wall time (s) and the child's own peak RSS (MB)."""
-    t0 = time.perf_counter()
-    proc = subprocess.Popen(cmd, cwd=ROOT, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
-    _, status, usage = os.wait4(proc.pid, 0)
-    wall = time.perf_counter() - t0
-    if os.waitstatus_to_exitcode(status) != 0:
-        raise RuntimeError(f"{' '.join(cmd)} failed: {proc.stderr.read().decode()[-800:]}")  # type: ignore[union-attr]
-    return wall, usage.ru_maxrss / 1024
+    """Wall time (s) and the peak memory (MB) of the whole process tree (PSS summed,
+    so the figure helper counts; bench/_measure.py)."""
+    sample = run_tree(cmd, ROOT)
+    return sample.wall_s, sample.tree_peak_mb
 
 
 def _load_list(project: Path) -> Path | None:
@@ -162,6 +158,7 @@ def main(argv: list[str] | None = None) -> int:
     ap.add_argument("--json", action="store_true")
     ap.add_argument("--quick", action="store_true", help="smaller sizes, for a smoke run")
     args = ap.parse_args(argv)
+    precompile(ROOT)  # before anything of ours is imported (see bench/_measure.py)
     doc = {"incremental": incremental(args.project), "scaling": scaling(args.project, args.quick)}
     if args.json:
         print(json.dumps(doc, indent=1))

@@ -20,14 +20,14 @@ import textwrap
 from basisbook.mathfmt import number_text, unit_text
 from basisbook.spec import EnergyFlow
 
-FONT = 11           # label font size, px
-TITLE_FONT = 13
+FONT = 13           # label font size, px (the page shows the figure 640 px wide)
+TITLE_FONT = 15
 CHAR_W = 0.6        # average glyph advance of DejaVu Sans in em (errs wide, so labels fit)
-LINE = 14           # label line pitch, px
+LINE = 16           # label line pitch, px
 BAND_H = 330.0      # height of the whole inflow bar, px
 GAP = 6.0           # between outflow bars, px
 BAR_W = 14.0
-BAND_LEN = 300.0    # horizontal run of the bands, px
+BAND_LEN = 240.0    # horizontal run of the bands, px
 MARGIN = 12.0
 _INFLOW_COLOURS = ["#1b4f72", "#b03a2e", "#1e8449", "#7d3c98", "#b9770e", "#5d6d7e"]
 _PRODUCT = ("#c9dbe9", "#1b4f72")  # band fill, bar and edge

@@ -43,13 +43,15 @@ def _serve(conn: Any, parent_end: Any) -> None:
     parent_end.close()  # else the pipe never reports the main process gone
     signal.signal(signal.SIGINT, signal.SIG_IGN)
     jobs: queue.Queue[Any] = queue.Queue()
+    gone = threading.Event()
 
     def read() -> None:
         try:
             while True:
                 jobs.put(conn.recv())
         except (EOFError, OSError):
-            jobs.put(None)  # the main process is gone or closed the pipe
+            gone.set()  # the main process is gone or closed the pipe: drop what is queued
+            jobs.put(None)
 
     threading.Thread(target=read, daemon=True).start()
     from basisbook import figures
@@ -58,7 +60,7 @@ def _serve(conn: Any, parent_end: Any) -> None:
     done: list[tuple[str, str | None]] = []
     while True:
         job = jobs.get()
-        if job is None:
+        if job is None or gone.is_set():
             return
         if job == FLUSH:
             try:
@@ -102,7 +104,7 @@ class FigureWorker:
         """Queue one chart; False if the helper is gone (draw it here instead)."""
         try:
             self._conn.send((key, chart, title))
-        except (OSError, ValueError):
+        except Exception:  # noqa: BLE001 - a closed pipe, or a chart that does not pickle
             return False
         self._sent.append(key)
         return True

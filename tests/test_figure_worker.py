@@ -112,3 +112,19 @@ def test_killed_build_leaves_no_helper_behind(tmp_path: Path) -> None:
             return
         time.sleep(0.05)
     pytest.fail(f"helper process {helper} still running 10 s after its build was killed")
+
+
+@needs_helper
+def test_a_chart_that_cannot_be_sent_is_drawn_here() -> None:
+    class LocalList(list):  # a class defined in a function does not pickle
+        pass
+
+    chart = Chart("x", "y", [Series("local", LocalList([0.0, 1.0]), LocalList([1.0, 0.0]))])
+    cache = RenderCache(FigureWorker.start())
+    try:
+        cache.start()
+        key = cache.request(chart, "unpicklable")
+        assert key in cache.figures and key not in cache._waiting  # drawn at once, here
+        assert cache.figures[key] == figures.render_svg(chart, "unpicklable")
+    finally:
+        cache.close()

@@ -755,6 +755,14 @@ def _design(v: Values, condenser_pressure: float) -> CycleDesign:
 
 def _check_pressure_order(v: Values, p_c: float) -> None:
     p6, p7, p8 = float(v.live_steam_pressure), float(v.heater_extraction_pressure), float(v.deaerator_pressure)
+    p_boiler = p6 + float(v.boiler_pressure_drop)
+    if p_boiler >= CRITICAL_PRESSURE:
+        # the feed pump delivers p6 + drop; at or above the critical point there is no
+        # evaporation and the model (drum boiler, IF97 regions 1, 2 and 4) does not apply
+        raise InputConflict("boiler_pressure_drop",
+                            f"live steam {p6:g} bar plus boiler pressure drop {float(v.boiler_pressure_drop):g} bar "
+                            f"puts the boiler at {p_boiler:g} bar, at or above the critical pressure of water "
+                            f"({CRITICAL_PRESSURE:g} bar, IAPWS-IF97): this model is for subcritical cycles only")
     if p_c >= p6:
         raise InputConflict("condenser_pressure",
                             f"condenser pressure {p_c:g} bar is not below the live-steam pressure {p6:g} bar "

@@ -143,7 +143,14 @@ class Builder:
         self.root = Path(root)
         self.out = Path(out).resolve()
         self.compute_cache: dict[str, object] = {}
-        self.render_cache = RenderCache(FigureWorker.start(), remember_pages=True)
+        worker = FigureWorker.start()
+        if worker is not None:
+            # a long-lived process: load matplotlib here too, once (about 0.4 s at start-up),
+            # so that a rebuild's charts are shared between this process and the helper
+            from basisbook import figures
+
+            figures.warm_up()
+        self.render_cache = RenderCache(worker, remember_pages=True, share_drawing=worker is not None)
         self._fingerprint = ""
         self._known: dict[str, tuple[bytes, int, int]] = {}  # what the last sync wrote
         self._last: BuildStats | None = None

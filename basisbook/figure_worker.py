@@ -25,6 +25,7 @@ import sys
 from typing import Any
 
 FLUSH = "flush"
+STEAL = "steal"
 
 
 def wanted() -> bool:
@@ -36,22 +37,44 @@ def wanted() -> bool:
 
 def _serve(conn: Any, parent_end: Any) -> None:
     """The helper's loop (runs in the forked process)."""
-    import queue
+    import collections
     import signal
     import threading
 
     parent_end.close()  # else the pipe never reports the main process gone
     signal.signal(signal.SIGINT, signal.SIG_IGN)
-    jobs: queue.Queue[Any] = queue.Queue()
+    jobs: collections.deque[Any] = collections.deque()
+    ready = threading.Condition()
+    send_lock = threading.Lock()
     gone = threading.Event()
+
+    def send(obj: Any) -> None:
+        with send_lock:
+            conn.send(obj)
 
     def read() -> None:
         try:
             while True:
-                jobs.put(conn.recv())
+                msg = conn.recv()
+                if msg == STEAL:
+                    # hand back the later half of the charts not yet begun (the main process
+                    # has finished its pages and draws them itself)
+                    with ready:
+                        queued = [i for i, j in enumerate(jobs) if isinstance(j, tuple)]
+                        take = queued[len(queued) - (len(queued) + 1) // 2:]
+                        stolen = [jobs[i][0] for i in take]
+                        for i in reversed(take):
+                            del jobs[i]
+                    send((STEAL, stolen))
+                    continue
+                with ready:
+                    jobs.append(msg)
+                    ready.notify()
         except (EOFError, OSError):
             gone.set()  # the main process is gone or closed the pipe: drop what is queued
-            jobs.put(None)
+            with ready:
+                jobs.append(None)
+                ready.notify()
 
     threading.Thread(target=read, daemon=True).start()
     from basisbook import figures
@@ -59,12 +82,15 @@ def _serve(conn: Any, parent_end: Any) -> None:
     figures.warm_up()  # the import, overlapped with the main process's loading
     done: list[tuple[str, str | None]] = []
     while True:
-        job = jobs.get()
+        with ready:
+            while not jobs:
+                ready.wait()
+            job = jobs.popleft()
         if job is None or gone.is_set():
             return
         if job == FLUSH:
             try:
-                conn.send(done)
+                send(done)
             except (BrokenPipeError, OSError):
                 return
             done = []
@@ -108,6 +134,22 @@ class FigureWorker:
             return False
         self._sent.append(key)
         return True
+
+    def steal(self) -> list[str]:
+        """Take back the later half of the charts the helper has not begun (keys);
+        the caller draws those itself.  Empty if the helper is gone."""
+        if not self._sent:
+            return []
+        try:
+            self._conn.send(STEAL)
+            tag, keys = self._conn.recv()
+        except (EOFError, OSError, ValueError):
+            return []
+        if tag != STEAL:
+            return []
+        taken = set(keys)
+        self._sent = [k for k in self._sent if k not in taken]
+        return list(keys)
 
     def collect(self) -> dict[str, str | None]:
         """Every chart submitted since the last collect, by key; a chart the helper

@@ -11,9 +11,8 @@ from __future__ import annotations
 
 import re
 
-_ID = re.compile(r'\bid="([^"]*)"')
-_HREF = re.compile(r'\bhref="([^"]*)"')
-_URLREF = re.compile(r"url\(#([^)]*)\)")
+# one pass over the attributes we rewrite: ids, links, and url(#...) references in SVG
+_ATTR = re.compile(r'\b(id|href)="([^"]*)"|url\(#([^)]*)\)')
 
 
 def _prefix(page: str) -> str:
@@ -28,11 +27,13 @@ def main_of(html: str) -> str:
 def localise(body: str, page: str, pages: set[str]) -> str:
     """Prefix ids and turn links to pages in the document into in-document anchors."""
     p = _prefix(page)
-    body = _ID.sub(lambda m: f'id="{p}{m.group(1)}"', body)
-    body = _URLREF.sub(lambda m: f"url(#{p}{m.group(1)})", body)
 
-    def href(m: re.Match[str]) -> str:
-        url = m.group(1)
+    def repl(m: re.Match[str]) -> str:
+        attr, url = m.group(1), m.group(2)
+        if attr is None:
+            return f"url(#{p}{m.group(3)})"
+        if attr == "id":
+            return f'id="{p}{url}"'
         if url.startswith("#"):
             return f'href="#{p}{url[1:]}"'
         target, _, frag = url.partition("#")
@@ -41,7 +42,7 @@ def localise(body: str, page: str, pages: set[str]) -> str:
             return f'href="#{q}{frag}"' if frag else f'href="#{q}top"'
         return m.group(0)  # source pages, figures, CSV: stay separate files
 
-    return _HREF.sub(href, body)
+    return _ATTR.sub(repl, body)
 
 
 def sections(rendered: dict[str, str], order: list[tuple[str, str]],

@@ -513,7 +513,7 @@ class RenderCache:
     environment, every figure's SVG by a hash of its data, and the figure helper
     process (basisbook/figure_worker.py) when there is one."""
 
-    def __init__(self, worker: Any = None, remember_pages: bool = False) -> None:
+    def __init__(self, worker: Any = None, remember_pages: bool = False, share_drawing: bool = False) -> None:
         self.env: Any = None
         self.env_root: Path | None = None
         self.figures: dict[str, str] = {}
@@ -524,8 +524,12 @@ class RenderCache:
         self._building = False
         self._chart_keys: dict[int, tuple[Any, str]] = {}
         self._pages: dict[str, str] = {}  # rendered pages by a hash of template and context
+        self._views: dict[str, dict[str, Any]] = {}  # calc page views by what they read
+        self._view_keys: dict[int, tuple[dict[str, Any], str]] = {}
         self.templates_stamp = ""
         self.remember_pages = remember_pages  # worth its hashing only across builds (serve)
+        # this process has matplotlib loaded and takes over charts the helper has not begun
+        self.share_drawing = share_drawing
         self.verification: dict[str, Any] | None = None  # depends on the code only
         self.sections: dict[str, tuple[str, str]] = {}  # one-document sections by page
 
@@ -552,6 +556,28 @@ class RenderCache:
         self._next_chart_keys[id(chart)] = hit
         return hit[1] + "|" + title
 
+    def calc_view(self, run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Comparison | None) -> dict[str, Any]:
+        """``calc_view``, kept across builds by everything it reads: the calc kind and
+        exact inputs (which fix every result, as the compute cache relies on), the
+        instance's own text and place, each input's source and upstream kind, where
+        its values are used, and this page's margin marks."""
+        if not self.remember_pages:
+            return calc_view(run, runs_by_id, cmp)
+        inst = run.instance
+        upstream = {iv.source.link[0]: runs_by_id[iv.source.link[0]].instance.calc
+                    for iv in run.inputs.values()
+                    if iv.source.link and iv.source.link[0] in runs_by_id}
+        key = repr((run.cache_key, inst.id, inst.calc, inst.title, inst.notes, inst.file, inst.line,
+                    [(n, iv.source) for n, iv in run.inputs.items()], sorted(upstream.items()),
+                    sorted(run.used_by.items()),
+                    (cmp.old_rev, sorted(cmp.marks(run.id).items())) if cmp is not None else None))
+        view = self._views.get(key)
+        if view is None:
+            view = calc_view(run, runs_by_id, cmp)
+        self._next_views[key] = view
+        self._view_keys[id(view)] = (view, key)
+        return view
+
     def page(self, env: Any, template: str, context: dict[str, Any]) -> str:
         """A rendered page, re-rendered only when its context or the templates changed.
 
@@ -562,7 +588,13 @@ class RenderCache:
 
         if not self.remember_pages:
             return env.get_template(template).render(**context)
-        key = hashlib.sha256("\0".join((self.templates_stamp, template, repr(sorted(context.items()))))
+        def part(value: Any) -> str:
+            # a calc view made above stands for itself by the key it was made from
+            known = self._view_keys.get(id(value))
+            return "view:" + known[1] if known is not None and known[0] is value else repr(value)
+
+        key = hashlib.sha256("\0".join((self.templates_stamp, template,
+                                        *(f"{k}={part(v)}" for k, v in sorted(context.items()))))
                              .encode()).hexdigest()
         text = self._pages.get(key)
         if text is None:
@@ -595,6 +627,11 @@ class RenderCache:
         (which raises the real error if the chart itself is at fault)."""
         if not self._waiting:
             return
+        if self.worker is not None and self.share_drawing:
+            for key in self.worker.steal():  # the pages are done: both processes draw now
+                chart, title = self._waiting.pop(key)
+                self.figures[key] = figures.render_svg(chart, title)
+                self.figures_drawn += 1
         got = self.worker.collect() if self.worker is not None else {}
         for key, (chart, title) in self._waiting.items():
             svg = got.get(key)
@@ -611,11 +648,14 @@ class RenderCache:
         self._waiting = {}
         self._next_chart_keys: dict[int, tuple[Any, str]] = {}
         self._next_pages: dict[str, str] = {}
+        self._next_views: dict[str, dict[str, Any]] = {}
+        self._view_keys: dict[int, tuple[dict[str, Any], str]] = {}
 
     def finish(self) -> None:
         """Forget figures the last build did not use (memory stays bounded)."""
         self.figures = {k: v for k, v in self.figures.items() if k in self._used}
-        self._chart_keys, self._pages = self._next_chart_keys, self._next_pages  # this build's only
+        # keep this build's entries only
+        self._chart_keys, self._pages, self._views = self._next_chart_keys, self._next_pages, self._next_views
         self._building = False
 
     def abort(self) -> None:
@@ -666,7 +706,7 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
     if cmp is not None:
         page("changes.html", "changes.html", "", **changes_view(cmp, by_id))
     for r in runs:
-        page(f"{r.id}.html", "calc.html", "", calc=calc_view(r, by_id, cmp))
+        page(f"{r.id}.html", "calc.html", "", calc=cache.calc_view(r, by_id, cmp))
         for f in r.spec.figures:
             rel = f"fig/{r.id}-{f.name}.svg"
             if rel in figure_files:

@@ -128,3 +128,32 @@ def test_a_chart_that_cannot_be_sent_is_drawn_here() -> None:
         assert cache.figures[key] == figures.render_svg(chart, "unpicklable")
     finally:
         cache.close()
+
+
+@needs_helper
+def test_stealing_splits_the_charts_without_loss_or_double_drawing() -> None:
+    charts = {f"k{i}": Chart("x", "y", [Series(f"s{i}", [0.0, 1.0], [0.0, float(i)])]) for i in range(6)}
+    worker = FigureWorker.start()
+    assert worker is not None
+    try:
+        for key, chart in charts.items():
+            assert worker.submit(key, chart, key)
+        stolen = worker.steal()  # sent at once: the helper has begun one chart at most
+        got = worker.collect()
+        assert stolen and set(stolen).isdisjoint(got) and set(stolen) | set(got) == set(charts)
+        assert all(got[k] == figures.render_svg(charts[k], k) for k in got)
+    finally:
+        worker.close()
+
+
+@needs_helper
+def test_a_cache_that_shares_drawing_gives_the_same_figures() -> None:
+    charts = [Chart("x", "y", [Series(f"s{i}", [0.0, 1.0], [1.0, float(i)])]) for i in range(5)]
+    cache = RenderCache(FigureWorker.start(), share_drawing=True)
+    try:
+        cache.start()
+        keys = [cache.request(c, f"t{i}") for i, c in enumerate(charts)]
+        cache.fetch()
+        assert [cache.figures[k] for k in keys] == [figures.render_svg(c, f"t{i}") for i, c in enumerate(charts)]
+    finally:
+        cache.close()

@@ -37,6 +37,10 @@ def test_sequence_of_edits_matches_clean_builds(demo_copy: Path, tmp_path: Path)
         ('altitude = "145 m"', 'altitude = "300 m"'),                                  # site only
         ("turns_per_phase = 20", "turns_per_phase = 22"),
         ('generator_active_power = "1500 kW"', 'generator_active_power = "1560 kW"'),  # back again
+        # no value changes, only where they stand: every input's line number moves on the pages
+        ("# Invented demo data", "# A comment line added above.\n# Invented demo data"),
+        ('generator_active_power = "12.5 MW"', '# a comment among the inputs\ngenerator_active_power = "12.5 MW"'),
+        ("condensing extraction steam turbine.", "condensing extraction steam turbine (notes edited)."),
     ]
     for n, (old, new) in enumerate(edits):
         rel = "project.toml" if "altitude" in old else GEN

@@ -47,7 +47,18 @@ def environment(project_root: Path) -> Any:
     if override.is_dir():
         loaders.append(jinja2.FileSystemLoader(str(override)))
     loaders.append(jinja2.FileSystemLoader(str(builtin_templates())))
-    return jinja2.Environment(
+
+    class ViewEnvironment(jinja2.Environment):
+        """Our views are plain dicts: ``page.title`` looks the key up first instead of
+        trying (and failing) an attribute, which was half of a page's render time.
+        Anything else, and a missing key (StrictUndefined), goes the usual way."""
+
+        def getattr(self, obj: Any, attribute: str) -> Any:
+            if type(obj) is dict and attribute in obj:
+                return obj[attribute]
+            return super().getattr(obj, attribute)
+
+    return ViewEnvironment(
         loader=jinja2.ChoiceLoader(loaders),
         autoescape=True,
         undefined=jinja2.StrictUndefined,

@@ -21,7 +21,7 @@ from pathlib import Path
 from basisbook import engine
 from basisbook import project as project_mod
 from basisbook.errors import Problem, ProjectError
-from basisbook.figure_worker import FigureWorker
+from basisbook.figure_worker import FigurePool, FigureWorker
 from basisbook.render import SITE_MARKER, RenderCache, render_files, write_files
 
 
@@ -143,13 +143,17 @@ class Builder:
         self.root = Path(root)
         self.out = Path(out).resolve()
         self.compute_cache: dict[str, object] = {}
-        worker = FigureWorker.start()
-        if worker is not None:
+        first = FigureWorker.start()
+        worker: FigureWorker | FigurePool | None = first
+        if first is not None:
             # a long-lived process: load matplotlib here too, once (about 0.4 s at start-up),
-            # so that a rebuild's charts are shared between this process and the helper
+            # so that this process can take over charts; a second helper forked after that
+            # has nothing to import, and a rebuild's few charts are drawn side by side
             from basisbook import figures
 
             figures.warm_up()
+            second = FigureWorker.start()
+            worker = FigurePool([first] + ([second] if second is not None else []))
         self.render_cache = RenderCache(worker, remember_pages=True, share_drawing=worker is not None)
         self._fingerprint = ""
         self._known: dict[str, tuple[bytes, int, int]] = {}  # what the last sync wrote
@@ -204,28 +208,35 @@ class Builder:
         self.render_cache.start()
         try:
             runs = engine.run(proj, self.compute_cache, on_run=self.render_cache.request_run)
-            files = render_files(proj, runs, self.render_cache)
+            files = render_files(proj, runs, self.render_cache, complete=False)
+            # the pages go out while the helpers finish the figures; then the rest
+            pending = self.render_cache.pending
+            early, _ = sync({r: d for r, d in files.items() if r not in pending}, self.out, self._known,
+                            remove=False)
+            self.render_cache.complete(files)
         except BaseException:
             self.render_cache.abort()
             raise
         rerun = [r.id for r in runs if r.cache_key not in before]
         written, removed = sync(files, self.out, self._known)
+        written += early
         return BuildStats(sum(1 for f in files if f.endswith(".html")), rerun, len(rerun),
                           len(runs) - len(rerun), self.render_cache.figures_drawn - drawn, written, removed)
 
 
 def sync(files: dict[str, bytes], out: Path,
-         known: dict[str, tuple[bytes, int, int]] | None = None) -> tuple[int, int]:
+         known: dict[str, tuple[bytes, int, int]] | None = None, remove: bool = True) -> tuple[int, int]:
     """Make ``out`` hold exactly ``files``: write changed bytes only, remove the rest.
 
     Each file is replaced by rename, so a reader never sees half a file.  ``known``
     (kept by a long-lived builder) remembers what the last sync wrote, as (bytes,
     size, mtime): a file whose size and mtime are still those is compared in memory
-    instead of being read back; it is updated to this sync's files.
+    instead of being read back; it is updated to this sync's files.  ``remove=False``
+    writes part of a site: nothing is removed and ``known`` keeps its other entries.
     """
     out.mkdir(parents=True, exist_ok=True)
     previous = dict(known or {})
-    if known is not None:
+    if known is not None and remove:
         known.clear()
     written = 0
     for rel, data in files.items():
@@ -252,6 +263,8 @@ def sync(files: dict[str, bytes], out: Path,
             known[rel] = (data, st.st_size, st.st_mtime_ns)
         written += 1
     removed = 0
+    if not remove:
+        return written, removed
     for path in sorted(out.rglob("*"), reverse=True):
         rel = path.relative_to(out).as_posix()
         if path.is_file() and rel not in files:

@@ -151,14 +151,30 @@ class FigureWorker:
         self._sent = [k for k in self._sent if k not in taken]
         return list(keys)
 
+    @property
+    def outstanding(self) -> int:
+        """Charts sent since the last collect."""
+        return len(self._sent)
+
     def collect(self) -> dict[str, str | None]:
         """Every chart submitted since the last collect, by key; a chart the helper
         could not deliver maps to None."""
+        return self._receive(self._request())
+
+    def _request(self) -> list[str] | None:
         sent, self._sent = self._sent, []
         if not sent:
-            return {}
+            return None
         try:
             self._conn.send(FLUSH)
+        except (OSError, ValueError):
+            pass  # the receive below then finds the pipe closed: every chart maps to None
+        return sent
+
+    def _receive(self, sent: list[str] | None) -> dict[str, str | None]:
+        if sent is None:
+            return {}
+        try:
             got = dict(self._conn.recv())
         except (EOFError, OSError, ValueError):
             got = {}
@@ -172,3 +188,35 @@ class FigureWorker:
             if self._proc.is_alive():
                 self._proc.kill()
                 self._proc.join()
+
+
+class FigurePool:
+    """Several helpers behind the interface of one (for a long-lived ``serve``).
+
+    Each chart goes to the helper with the fewest charts outstanding; ``steal``
+    asks each of them; ``collect`` asks them all to flush before it waits, so
+    they finish side by side.
+    """
+
+    def __init__(self, workers: list[FigureWorker]) -> None:
+        self.workers = workers
+
+    def submit(self, key: str, chart: Any, title: str) -> bool:
+        for w in sorted(self.workers, key=lambda w: w.outstanding):
+            if w.submit(key, chart, title):
+                return True
+        return False
+
+    def steal(self) -> list[str]:
+        return [k for w in self.workers for k in w.steal()]
+
+    def collect(self) -> dict[str, str | None]:
+        asked = [(w, w._request()) for w in self.workers]
+        out: dict[str, str | None] = {}
+        for w, sent in asked:
+            out.update(w._receive(sent))
+        return out
+
+    def close(self) -> None:
+        for w in self.workers:
+            w.close()

@@ -532,6 +532,7 @@ class RenderCache:
         self.worker = worker
         self._used: set[str] = set()
         self._waiting: dict[str, tuple[Any, str]] = {}
+        self.pending: dict[str, str] = {}  # site path -> figure key, not yet in the files
         self._building = False
         self._chart_keys: dict[int, tuple[Any, str]] = {}
         self._pages: dict[str, str] = {}  # rendered pages by a hash of template and context
@@ -627,6 +628,14 @@ class RenderCache:
             self.figures_drawn += 1
         return key
 
+    def complete(self, files: dict[str, bytes]) -> None:
+        """Fill in the figures ``render_files(complete=False)`` left pending; end the build."""
+        self.fetch()
+        for rel, key in self.pending.items():
+            files[rel] = self.figures[key].encode("utf-8")
+        self.pending = {}
+        self.finish()
+
     def request_run(self, run: CalcRun) -> None:
         """Send a finished run's figures ahead (``engine.run(on_run=...)``)."""
         if self.worker is not None:
@@ -685,12 +694,14 @@ class RenderCache:
 
 
 def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | None = None,
-                 as_snapshot: str | None = None) -> dict[str, bytes]:
+                 as_snapshot: str | None = None, complete: bool = True) -> dict[str, bytes]:
     """Every file of the site as bytes, by relative path (nothing is written here).
 
     The live site includes a copy of each archived revision's handbook under
     ``archive/rev-<id>/``; ``as_snapshot`` (the revision being archived) leaves them out,
-    so snapshots never nest.
+    so snapshots never nest.  With ``complete=False`` the figures a helper is still
+    drawing are left as empty placeholders (``cache.pending``) for the caller to fill
+    with ``cache.complete(files)``: a builder writes the pages meanwhile.
     """
     cache = cache or RenderCache()
     cache.start()
@@ -757,10 +768,9 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
             if f.is_file():
                 files[f"archive/rev-{rev_id}/{f.relative_to(site).as_posix()}"] = f.read_bytes()
     files[SITE_MARKER] = b"basisbook site: this folder is replaced on every build\n"
-    cache.fetch()
-    for rel, key in figure_files.items():
-        files[rel] = cache.figures[key].encode("utf-8")
-    cache.finish()
+    cache.pending = figure_files
+    if complete:
+        cache.complete(files)
     return files
 
 

@@ -157,3 +157,21 @@ def test_a_cache_that_shares_drawing_gives_the_same_figures() -> None:
         assert [cache.figures[k] for k in keys] == [figures.render_svg(c, f"t{i}") for i, c in enumerate(charts)]
     finally:
         cache.close()
+
+
+@needs_helper
+def test_a_pool_of_two_helpers_delivers_every_chart_once() -> None:
+    from basisbook.figure_worker import FigurePool
+
+    first, second = FigureWorker.start(), FigureWorker.start()
+    assert first is not None and second is not None
+    pool = FigurePool([first, second])
+    charts = {f"p{i}": Chart("x", "y", [Series(f"s{i}", [0.0, 2.0], [float(i), 0.0])]) for i in range(5)}
+    try:
+        for key, chart in charts.items():
+            assert pool.submit(key, chart, key)
+        assert (first.outstanding, second.outstanding) in ((3, 2), (2, 3))  # shared, not all on one
+        got = pool.collect()
+        assert got == {k: figures.render_svg(c, k) for k, c in charts.items()}
+    finally:
+        pool.close()

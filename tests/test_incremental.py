@@ -92,3 +92,15 @@ def test_a_broken_edit_keeps_the_last_good_site(demo_copy: Path, tmp_path: Path)
     _edit(demo_copy, GEN, "generator_power_factor = 8", "generator_power_factor = 0.8")
     builder.build()
     assert _tree(live) == before
+
+
+def test_partial_sync_writes_but_never_removes(tmp_path: Path) -> None:
+    from basisbook.build import sync
+
+    out = tmp_path / "site"
+    known: dict = {}
+    assert sync({"a.html": b"a", "b.html": b"b"}, out, known) == (2, 0)
+    assert sync({"a.html": b"A"}, out, known, remove=False) == (1, 0)  # b.html stays
+    assert (out / "b.html").read_bytes() == b"b" and set(known) == {"a.html", "b.html"}
+    assert sync({"a.html": b"A"}, out, known) == (0, 1)  # the full sync removes it
+    assert not (out / "b.html").exists()

@@ -6,9 +6,11 @@ helper imports matplotlib while the main process loads the project and runs the
 calcs, then draws the charts it is sent while the main process writes the pages.
 
 Protocol, over one pipe: the main process sends ``(key, chart, title)`` jobs and
-then ``FLUSH``; the helper answers with one list of ``(key, svg or None)``.  A
-reader thread in the helper drains the pipe at once, so the main process never
-waits on a send while the helper draws.  ``None`` (the chart failed to draw)
+then ``FLUSH``; the helper answers with one list of ``(key, svg or None)``.
+``STEAL`` (from a main process that has matplotlib loaded, as in ``serve``) is
+answered at once with the keys of the later half of the jobs not yet begun,
+which the helper then drops.  A reader thread in the helper drains the pipe at
+once, so the main process never waits on a send while the helper draws.  ``None`` (the chart failed to draw)
 and a dead or missing helper both fall back to drawing in the main process,
 which then raises the real error: the site is the same bytes either way.
 

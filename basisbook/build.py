@@ -210,9 +210,7 @@ class Builder:
             runs = engine.run(proj, self.compute_cache, on_run=self.render_cache.request_run)
             files = render_files(proj, runs, self.render_cache, complete=False)
             # the pages go out while the helpers finish the figures; then the rest
-            pending = self.render_cache.pending
-            early, _ = sync({r: d for r, d in files.items() if r not in pending}, self.out, self._known,
-                            remove=False)
+            early, _ = sync(files, self.out, self._known, remove=False)
             self.render_cache.complete(files)
         except BaseException:
             self.render_cache.abort()
@@ -235,7 +233,8 @@ def sync(files: dict[str, bytes], out: Path,
     writes part of a site: nothing is removed and ``known`` keeps its other entries.
     """
     out.mkdir(parents=True, exist_ok=True)
-    previous = dict(known or {})
+    # a full sync rebuilds ``known`` from this sync's files; a partial one updates it
+    previous = dict(known) if known is not None and remove else (known or {})
     if known is not None and remove:
         known.clear()
     written = 0

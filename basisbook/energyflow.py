@@ -91,7 +91,8 @@ def svg(flow: EnergyFlow, title: str) -> str:
                      f'fill="{_INFLOW_COLOURS[i % len(_INFLOW_COLOURS)]}" stroke="#000" stroke-width="0.6"/>')
         in_centres.append(y + h / 2 - LINE / 2)
         y += h
-    for (label, value), ly in zip(in_labels, _spread(in_centres, 2 * LINE + 2), strict=True):
+    in_label_ys = _spread(in_centres, 2 * LINE + 2)
+    for (label, value), ly in zip(in_labels, in_label_ys, strict=True):
         parts.append(f'<text x="{_n(x_in - 6)}" y="{_n(ly + 4)}" text-anchor="end">'
                      f'<tspan>{_e(label)}</tspan><tspan x="{_n(x_in - 6)}" dy="{LINE}">{_e(value)}</tspan></text>')
     # bands and outflow bars
@@ -120,7 +121,7 @@ def svg(flow: EnergyFlow, title: str) -> str:
                          'stroke="#555" stroke-width="0.6" fill="none"/>')
         parts.append(f'<text x="{_n(x_label)}" y="{_n(ly + 4)}">{_e(text)}</text>')
     bottom = max(top + BAND_H, rt - GAP, (label_ys[-1] if label_ys else 0) + LINE,
-                 (_spread(in_centres, 2 * LINE + 2)[-1] + 2 * LINE) if in_centres else 0) + MARGIN
+                 (in_label_ys[-1] + 2 * LINE) if in_label_ys else 0) + MARGIN
     head = [f'<text x="{_n(width / 2)}" y="{_n(MARGIN + TITLE_FONT * (1.3 * i + 1))}" text-anchor="middle" '
             f'font-size="{TITLE_FONT}">{_e(line)}</text>' for i, line in enumerate(title_lines)]
     return (

@@ -537,7 +537,6 @@ class RenderCache:
         self._chart_keys: dict[int, tuple[Any, str]] = {}
         self._pages: dict[str, str] = {}  # rendered pages by a hash of template and context
         self._views: dict[str, dict[str, Any]] = {}  # calc page views by what they read
-        self._view_keys: dict[int, tuple[dict[str, Any], str]] = {}
         self.templates_stamp = ""
         self.remember_pages = remember_pages  # worth its hashing only across builds (serve)
         # this process has matplotlib loaded and takes over charts the helper has not begun
@@ -548,6 +547,8 @@ class RenderCache:
     def environment(self, project_root: Path) -> Any:
         if self.env is None or self.env_root != project_root:
             self.env, self.env_root = environment(project_root), project_root
+        if not self.remember_pages:
+            return self.env
         # the pages cached below are only as good as the templates they came from
         stamp = []
         for folder in (builtin_templates(), project_root / "templates"):
@@ -568,13 +569,14 @@ class RenderCache:
         self._next_chart_keys[id(chart)] = hit
         return hit[1] + "|" + title
 
-    def calc_view(self, run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Comparison | None) -> dict[str, Any]:
-        """``calc_view``, kept across builds by everything it reads: the calc kind and
-        exact inputs (which fix every result, as the compute cache relies on), the
-        instance's own text and place, each input's source and upstream kind, where
-        its values are used, and this page's margin marks."""
+    def calc_view(self, run: CalcRun, runs_by_id: dict[str, CalcRun],
+                  cmp: Comparison | None) -> tuple[dict[str, Any], str]:
+        """``calc_view`` and the key it is kept by across builds: everything it reads,
+        that is the calc kind and exact inputs (which fix every result, as the compute
+        cache relies on), the instance's own text and place, each input's source and
+        upstream kind, where its values are used, and this page's margin marks."""
         if not self.remember_pages:
-            return calc_view(run, runs_by_id, cmp)
+            return calc_view(run, runs_by_id, cmp), ""
         inst = run.instance
         upstream = {iv.source.link[0]: runs_by_id[iv.source.link[0]].instance.calc
                     for iv in run.inputs.values()
@@ -587,27 +589,24 @@ class RenderCache:
         if view is None:
             view = calc_view(run, runs_by_id, cmp)
         self._next_views[key] = view
-        self._view_keys[id(view)] = (view, key)
-        return view
+        return view, key
 
-    def page(self, env: Any, template: str, context: dict[str, Any]) -> str:
+    def page(self, env: Any, template: str, context: dict[str, Any],
+             stand_ins: dict[str, str] | None = None) -> str:
         """A rendered page, re-rendered only when its context or the templates changed.
 
         The key is the context's repr: everything a template can see is plain data
-        (strings, numbers, lists, dicts), whose repr is exact and complete.
+        (strings, numbers, lists, dicts), whose repr is exact and complete.  A value
+        named in ``stand_ins`` is represented by the key given there (a calc view by
+        the key it was made from).
         """
         import hashlib
 
         if not self.remember_pages:
             return env.get_template(template).render(**context)
-        def part(value: Any) -> str:
-            # a calc view made above stands for itself by the key it was made from
-            known = self._view_keys.get(id(value))
-            return "view:" + known[1] if known is not None and known[0] is value else repr(value)
-
-        key = hashlib.sha256("\0".join((self.templates_stamp, template,
-                                        *(f"{k}={part(v)}" for k, v in sorted(context.items()))))
-                             .encode()).hexdigest()
+        stand_ins = stand_ins or {}
+        parts = (f"{k}={stand_ins[k] if k in stand_ins else repr(v)}" for k, v in sorted(context.items()))
+        key = hashlib.sha256("\0".join((self.templates_stamp, template, *parts)).encode()).hexdigest()
         text = self._pages.get(key)
         if text is None:
             text = env.get_template(template).render(**context)
@@ -624,12 +623,16 @@ class RenderCache:
         if self.worker is not None and not isinstance(chart, EnergyFlow) and self.worker.submit(key, chart, title):
             self._waiting[key] = (chart, title)
         else:
-            self.figures[key] = figures.render_svg(chart, title)
-            self.figures_drawn += 1
+            self._keep(key, None, chart, title)
         return key
 
+    def _keep(self, key: str, svg: str | None, chart: Any, title: str) -> None:
+        """Store a figure; ``None`` means draw it here (the real error, if any, is raised)."""
+        self.figures[key] = svg if svg is not None else figures.render_svg(chart, title)
+        self.figures_drawn += 1
+
     def complete(self, files: dict[str, bytes]) -> None:
-        """Fill in the figures ``render_files(complete=False)`` left pending; end the build."""
+        """Add the figures ``render_files(complete=False)`` left pending; end the build."""
         self.fetch()
         for rel, key in self.pending.items():
             files[rel] = self.figures[key].encode("utf-8")
@@ -649,14 +652,10 @@ class RenderCache:
             return
         if self.worker is not None and self.share_drawing:
             for key in self.worker.steal():  # the pages are done: both processes draw now
-                chart, title = self._waiting.pop(key)
-                self.figures[key] = figures.render_svg(chart, title)
-                self.figures_drawn += 1
+                self._keep(key, None, *self._waiting.pop(key))
         got = self.worker.collect() if self.worker is not None else {}
         for key, (chart, title) in self._waiting.items():
-            svg = got.get(key)
-            self.figures[key] = svg if svg is not None else figures.render_svg(chart, title)
-            self.figures_drawn += 1
+            self._keep(key, got.get(key), chart, title)
         self._waiting = {}
 
     def start(self) -> None:
@@ -669,7 +668,6 @@ class RenderCache:
         self._next_chart_keys: dict[int, tuple[Any, str]] = {}
         self._next_pages: dict[str, str] = {}
         self._next_views: dict[str, dict[str, Any]] = {}
-        self._view_keys: dict[int, tuple[dict[str, Any], str]] = {}
 
     def finish(self) -> None:
         """Forget figures the last build did not use (memory stays bounded)."""
@@ -700,8 +698,8 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
     The live site includes a copy of each archived revision's handbook under
     ``archive/rev-<id>/``; ``as_snapshot`` (the revision being archived) leaves them out,
     so snapshots never nest.  With ``complete=False`` the figures a helper is still
-    drawing are left as empty placeholders (``cache.pending``) for the caller to fill
-    with ``cache.complete(files)``: a builder writes the pages meanwhile.
+    drawing are left out (their paths in ``cache.pending``) for the caller to add with
+    ``cache.complete(files)``: a builder writes the pages meanwhile.
     """
     cache = cache or RenderCache()
     cache.start()
@@ -716,8 +714,8 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
     # helper process draws them while the pages below are rendered
     figure_files = {rel: cache.request(chart, title) for r in runs for rel, chart, title in figure_jobs(r)}
 
-    def page(rel: str, template: str, root: str, **ctx: Any) -> None:
-        text = cache.page(env, template, {"root": root, "page": rel, **common, **ctx})
+    def page(rel: str, template: str, root: str, stand_ins: dict[str, str] | None = None, **ctx: Any) -> None:
+        text = cache.page(env, template, {"root": root, "page": rel, **common, **ctx}, stand_ins)
         files[rel] = text.encode("utf-8")
         rendered[rel] = text
 
@@ -728,11 +726,8 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
     if cmp is not None:
         page("changes.html", "changes.html", "", **changes_view(cmp, by_id))
     for r in runs:
-        page(f"{r.id}.html", "calc.html", "", calc=cache.calc_view(r, by_id, cmp))
-        for f in r.spec.figures:
-            rel = f"fig/{r.id}-{f.name}.svg"
-            if rel in figure_files:
-                files[rel] = b""  # filled in below, once the helper has delivered
+        view, view_key = cache.calc_view(r, by_id, cmp)
+        page(f"{r.id}.html", "calc.html", "", {"calc": "view:" + view_key} if view_key else None, calc=view)
         for t in r.spec.tables:
             if t.name in r.tables:
                 files[f"tables/{r.id}-{t.name}.csv"] = table_csv(r.tables[t.name]).encode("utf-8")

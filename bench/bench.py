@@ -69,17 +69,13 @@ class Measure:
         return max(s.tree_peak_mb for s in self.samples)
 
 
-def run_child(cmd: list[str], cwd: Path) -> Sample:
-    return run_tree(cmd, cwd)
-
-
 def measure(commands: dict[str, Callable[[int], list[str]]], runs: int, cwd: Path) -> list[Measure]:
     """Run every command once per round, round after round, so a slow spell on the
     machine spreads over all measures instead of skewing one."""
     samples: dict[str, list[Sample]] = {name: [] for name in commands}
     for i in range(runs):
         for name, make_cmd in commands.items():
-            samples[name].append(run_child(make_cmd(i), cwd))
+            samples[name].append(run_tree(make_cmd(i), cwd))
     return [Measure(name, make_cmd(0), samples[name]) for name, make_cmd in commands.items()]
 
 

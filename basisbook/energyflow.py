@@ -14,10 +14,11 @@ for the same data.
 
 from __future__ import annotations
 
-import html
 import textwrap
 
 from basisbook.mathfmt import number_text, unit_text
+from basisbook.singleline import svg_number
+from basisbook.singleline import svg_text as _e
 from basisbook.spec import EnergyFlow
 
 FONT = 13           # label font size, px (the page shows the figure 640 px wide)
@@ -34,14 +35,8 @@ _PRODUCT = ("#c9dbe9", "#1b4f72")  # band fill, bar and edge
 _LOSS = ("#f1e2cf", "#8a5a00")
 
 
-def _e(text: str) -> str:
-    return html.escape(str(text), quote=True)
-
-
 def _n(x: float) -> str:
-    """Coordinates to two decimals, trailing zeros dropped: deterministic and short."""
-    s = f"{x:.2f}".rstrip("0").rstrip(".")
-    return "0" if s in ("-0", "") else s
+    return svg_number(x, 2)
 
 
 def _text_w(text: str, size: float = FONT) -> float:

@@ -28,14 +28,19 @@ SYMBOLS = ("grid", "transformer", "generator", "busbar", "breaker", "motor", "lo
 HALF = {"grid": 14, "transformer": 26, "generator": 18, "busbar": 0, "breaker": 7, "motor": 16, "load": 10}
 
 
-def _e(text: str) -> str:
+def svg_text(text: str) -> str:
+    """Project text made safe inside SVG text and attributes (also used by energyflow.py)."""
     return html.escape(str(text), quote=True)
 
 
-def _n(x: float) -> str:
-    """Coordinates to one decimal, trailing zeros dropped: deterministic and short."""
-    s = f"{x:.1f}"
-    return s[:-2] if s.endswith(".0") else s
+def svg_number(x: float, decimals: int = 1) -> str:
+    """A coordinate to ``decimals`` places, trailing zeros dropped: deterministic and short."""
+    s = f"{x:.{decimals}f}"
+    if "." in s:
+        s = s.rstrip("0").rstrip(".")
+    return "0" if s == "-0" else s
+
+
 
 
 @dataclass
@@ -111,32 +116,32 @@ def _symbol(n: _Node) -> list[str]:
     if s == "grid":
         w, h = 40, 28
         x0, y0 = x - w / 2, y - h / 2
-        parts = [f'<rect x="{_n(x0)}" y="{_n(y0)}" width="{w}" height="{h}" {line}/>']
+        parts = [f'<rect x="{svg_number(x0)}" y="{svg_number(y0)}" width="{w}" height="{h}" {line}/>']
         # hatch at 45 degrees, each stroke clipped to the box by hand (no clipPath ids needed)
         for k in range(-h, w, 7):
             ax, ay = x0 + max(k, 0), y0 + max(-k, 0)
             run = min(w - max(k, 0), h - max(-k, 0))
-            parts.append(f'<line x1="{_n(ax)}" y1="{_n(ay + run)}" x2="{_n(ax + run)}" y2="{_n(ay)}" '
+            parts.append(f'<line x1="{svg_number(ax)}" y1="{svg_number(ay + run)}" x2="{svg_number(ax + run)}" y2="{svg_number(ay)}" '
                          'stroke="#222" stroke-width="0.8"/>')
         return parts
     if s == "transformer":
-        return [f'<circle cx="{_n(x)}" cy="{_n(y - 8)}" r="14" {line}/>',
-                f'<circle cx="{_n(x)}" cy="{_n(y + 8)}" r="14" {line}/>']
+        return [f'<circle cx="{svg_number(x)}" cy="{svg_number(y - 8)}" r="14" {line}/>',
+                f'<circle cx="{svg_number(x)}" cy="{svg_number(y + 8)}" r="14" {line}/>']
     if s in ("generator", "motor"):
         r = HALF[s]
         letter = "G" if s == "generator" else "M"
-        tilde = (f'<path d="M{_n(x - 7)} {_n(y + 8)} q3.5 -4 7 0 t7 0" stroke="#222" stroke-width="1.2" '
+        tilde = (f'<path d="M{svg_number(x - 7)} {svg_number(y + 8)} q3.5 -4 7 0 t7 0" stroke="#222" stroke-width="1.2" '
                  'fill="none"/>')
-        return [f'<circle cx="{_n(x)}" cy="{_n(y)}" r="{r}" {line}/>',
-                f'<text x="{_n(x)}" y="{_n(y + 3)}" text-anchor="middle" font-size="13" '
+        return [f'<circle cx="{svg_number(x)}" cy="{svg_number(y)}" r="{r}" {line}/>',
+                f'<text x="{svg_number(x)}" y="{svg_number(y + 3)}" text-anchor="middle" font-size="13" '
                 f'font-weight="bold">{letter}</text>', tilde]
     if s == "busbar":
-        return [f'<line x1="{_n(n.left)}" y1="{_n(y)}" x2="{_n(n.right)}" y2="{_n(y)}" stroke="#222" '
+        return [f'<line x1="{svg_number(n.left)}" y1="{svg_number(y)}" x2="{svg_number(n.right)}" y2="{svg_number(y)}" stroke="#222" '
                 'stroke-width="5" stroke-linecap="butt"/>']
     if s == "breaker":
-        return [f'<rect x="{_n(x - 7)}" y="{_n(y - 7)}" width="14" height="14" {line} fill-opacity="0"/>']
+        return [f'<rect x="{svg_number(x - 7)}" y="{svg_number(y - 7)}" width="14" height="14" {line} fill-opacity="0"/>']
     # load: an arrowhead at the end of its feeder
-    return [f'<path d="M{_n(x - 7)} {_n(y - 6)} L{_n(x + 7)} {_n(y - 6)} L{_n(x)} {_n(y + 10)} Z" '
+    return [f'<path d="M{svg_number(x - 7)} {svg_number(y - 6)} L{svg_number(x + 7)} {svg_number(y - 6)} L{svg_number(x)} {svg_number(y + 10)} Z" '
             'fill="#222"/>']
 
 
@@ -147,7 +152,7 @@ def _label(n: _Node) -> str:
     else:
         x, anchor = n.x + LABEL_GAP, "start"
     y0 = n.y - (len(lines) - 1) * (FONT + 2) / 2 + FONT / 3
-    spans = "".join(f'<tspan x="{_n(x)}" y="{_n(y0 + i * (FONT + 2))}">{_e(t)}</tspan>'
+    spans = "".join(f'<tspan x="{svg_number(x)}" y="{svg_number(y0 + i * (FONT + 2))}">{svg_text(t)}</tspan>'
                     for i, t in enumerate(lines))
     return f'<text font-size="{FONT}" text-anchor="{anchor}">{spans}</text>'
 
@@ -155,12 +160,12 @@ def _label(n: _Node) -> str:
 def _wire(parent: _Node, child: _Node) -> str:
     top = child.y - HALF[child.el.symbol]
     if parent.el.symbol == "busbar":
-        return f'<line x1="{_n(child.x)}" y1="{_n(parent.y)}" x2="{_n(child.x)}" y2="{_n(top)}" stroke="#222" stroke-width="1.6"/>'
+        return f'<line x1="{svg_number(child.x)}" y1="{svg_number(parent.y)}" x2="{svg_number(child.x)}" y2="{svg_number(top)}" stroke="#222" stroke-width="1.6"/>'
     bottom = parent.y + HALF[parent.el.symbol]
     if abs(parent.x - child.x) < 0.05:
-        return f'<line x1="{_n(child.x)}" y1="{_n(bottom)}" x2="{_n(child.x)}" y2="{_n(top)}" stroke="#222" stroke-width="1.6"/>'
+        return f'<line x1="{svg_number(child.x)}" y1="{svg_number(bottom)}" x2="{svg_number(child.x)}" y2="{svg_number(top)}" stroke="#222" stroke-width="1.6"/>'
     mid = (bottom + top) / 2.0
-    return (f'<path d="M{_n(parent.x)} {_n(bottom)} V{_n(mid)} H{_n(child.x)} V{_n(top)}" stroke="#222" '
+    return (f'<path d="M{svg_number(parent.x)} {svg_number(bottom)} V{svg_number(mid)} H{svg_number(child.x)} V{svg_number(top)}" stroke="#222" '
             'stroke-width="1.6" fill="none"/>')
 
 
@@ -180,23 +185,23 @@ def svg(diagram: SingleLine, title: str) -> str:
     width = max([x + MARGIN] + [(n.right if n.el.symbol == "busbar" else n.x) + LABEL_GAP + _label_width(n) + MARGIN
                                 for n in nodes])
     height = max(n.y for n in nodes) + ROW / 2 + MARGIN
-    out = [f'<svg class="single-line" viewBox="0 0 {_n(width)} {_n(height)}" width="{_n(width)}" '
-           f'height="{_n(height)}" role="img" aria-label="{_e(title)}" font-family="sans-serif">',
-           f'<title>{_e(title)}</title>',
-           f'<text x="{MARGIN}" y="{MARGIN}" font-size="13" font-weight="bold">{_e(title)}</text>']
+    out = [f'<svg class="single-line" viewBox="0 0 {svg_number(width)} {svg_number(height)}" width="{svg_number(width)}" '
+           f'height="{svg_number(height)}" role="img" aria-label="{svg_text(title)}" font-family="sans-serif">',
+           f'<title>{svg_text(title)}</title>',
+           f'<text x="{MARGIN}" y="{MARGIN}" font-size="13" font-weight="bold">{svg_text(title)}</text>']
     for n in nodes:  # wires first, so symbols sit on top
         for c in n.children:
             out.append(_wire(n, c))
     for n in nodes:
         body = "".join(_symbol(n)) + _label(n)
-        group = f'<g class="sld-{_e(n.el.symbol)}" id="sld-{_e(n.el.id)}">{body}</g>'
+        group = f'<g class="sld-{svg_text(n.el.symbol)}" id="sld-{svg_text(n.el.id)}">{body}</g>'
         href = ""
         if n.el.link:
             href = f"{n.el.link}.html" + (f"#{n.el.anchor}" if n.el.anchor else "")
         elif n.el.anchor:
             href = f"#{n.el.anchor}"
         if href:
-            group = f'<a href="{_e(href)}">{group}</a>'
+            group = f'<a href="{svg_text(href)}">{group}</a>'
         out.append(group)
     out.append("</svg>")
     return "\n".join(out)

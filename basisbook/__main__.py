@@ -1,5 +1,5 @@
 import sys
 
-from basisbook.cli import main
+from basisbook.commands.cli import main
 
 sys.exit(main())

@@ -51,7 +51,7 @@ def _load_list(project: Path) -> Path | None:
 
 
 def incremental(project: Path) -> dict[str, Any]:
-    from basisbook.build import Builder
+    from basisbook.commands.build import Builder
 
     with tempfile.TemporaryDirectory() as tmp:
         proj = Path(tmp) / "project"

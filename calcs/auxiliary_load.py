@@ -16,8 +16,10 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from typing import Any
 
-from basisbook.errors import InputConflict
-from basisbook.spec import (
+from basisbook.calcs.glossary import GLOSSARY
+
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import (
     CalcSpec,
     Check,
     Field,
@@ -31,7 +33,6 @@ from basisbook.spec import (
     TableSpec,
     Values,
 )
-from calcs.glossary import GLOSSARY
 
 DUTIES = ("continuous", "intermittent", "standby")
 # busbar sections of one auxiliary switchboard; the loader rejects any other name with file:row

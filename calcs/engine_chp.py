@@ -20,8 +20,10 @@ from __future__ import annotations
 from collections.abc import Mapping
 from typing import NamedTuple
 
-from basisbook.errors import InputConflict
-from basisbook.spec import (
+from basisbook.calcs.glossary import GLOSSARY
+
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import (
     CalcSpec,
     Chart,
     Check,
@@ -39,7 +41,6 @@ from basisbook.spec import (
     TableSpec,
     Values,
 )
-from calcs.glossary import GLOSSARY
 
 KELVIN = 273.15
 NORMAL_PRESSURE = 101325.0  # Pa; normal conditions 0 degC, 101.325 kPa (ISO 13443:1996)

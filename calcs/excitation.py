@@ -21,9 +21,10 @@ from collections.abc import Callable, Sequence
 from typing import NamedTuple
 
 import numpy as np
+from basisbook.calcs.glossary import GLOSSARY
 
-from basisbook.errors import InputConflict
-from basisbook.spec import (
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import (
     CalcSpec,
     Chart,
     Check,
@@ -41,7 +42,6 @@ from basisbook.spec import (
     TableSpec,
     Values,
 )
-from calcs.glossary import GLOSSARY
 
 # ---------------------------------------------------------------------------
 # Monotone cubic interpolation (Fritsch & Carlson 1980)

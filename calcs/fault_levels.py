@@ -17,8 +17,10 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from basisbook.errors import InputConflict
-from basisbook.spec import (
+from basisbook.calcs.glossary import GLOSSARY
+
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import (
     CalcSpec,
     Chart,
     Check,
@@ -37,7 +39,6 @@ from basisbook.spec import (
     TableSpec,
     Values,
 )
-from calcs.glossary import GLOSSARY
 
 SQRT3 = math.sqrt(3.0)
 

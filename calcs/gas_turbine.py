@@ -16,8 +16,10 @@ from __future__ import annotations
 
 from typing import NamedTuple
 
-from basisbook.errors import InputConflict
-from basisbook.spec import (
+from basisbook.calcs.glossary import GLOSSARY
+
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import (
     CalcSpec,
     Chart,
     Check,
@@ -35,7 +37,6 @@ from basisbook.spec import (
     TableSpec,
     Values,
 )
-from calcs.glossary import GLOSSARY
 
 KELVIN = 273.15
 REFERENCE_TEMPERATURE = 25.0  # degC, combustion reference of the net calorific value

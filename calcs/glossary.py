@@ -4,10 +4,10 @@ A module's inputs and outputs name a term here; its symbol (LaTeX, following
 IEC 60027 / IEC 60034 usage), meaning and unit (a pint unit string in which the
 maths runs) are declared once and reused by pages, tables and docs.
 Units: "" dimensionless, "pu" per unit, "text" for a choice, "Mvar"/"kvar" are
-reactive power (a dimension of their own in basisbook.units).
+reactive power (a dimension of their own in basisbook.reading.units).
 """
 
-from basisbook.spec import Term
+from basisbook.contract.spec import Term
 
 GLOSSARY: dict[str, Term] = {
     # --- synchronous generator (calcs/synchronous_generator.py) ---

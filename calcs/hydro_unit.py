@@ -15,8 +15,10 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 
-from basisbook.errors import InputConflict
-from basisbook.spec import (
+from basisbook.calcs.glossary import GLOSSARY
+
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import (
     CalcSpec,
     Chart,
     Check,
@@ -35,7 +37,6 @@ from basisbook.spec import (
     TableSpec,
     Values,
 )
-from calcs.glossary import GLOSSARY
 
 STANDARD_GRAVITY = 9.80665  # m/s2, CGPM 1901 (ISO 80000-3:2019, item 3-9.3 as recalled)
 KELVIN = 273.15

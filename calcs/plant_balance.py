@@ -9,8 +9,10 @@ its equivalent full-load hours.  Units: MW, h, GWh.
 
 from __future__ import annotations
 
-from basisbook.errors import InputConflict
-from basisbook.spec import (
+from basisbook.calcs.glossary import GLOSSARY
+
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import (
     CalcSpec,
     Check,
     EnergyFlow,
@@ -25,7 +27,6 @@ from basisbook.spec import (
     TableSpec,
     Values,
 )
-from calcs.glossary import GLOSSARY
 
 HOURS_PER_YEAR = 8760.0
 

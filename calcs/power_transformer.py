@@ -11,8 +11,10 @@ from __future__ import annotations
 
 import math
 
-from basisbook.errors import InputConflict
-from basisbook.spec import (
+from basisbook.calcs.glossary import GLOSSARY
+
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import (
     CalcSpec,
     Check,
     Input,
@@ -23,7 +25,6 @@ from basisbook.spec import (
     Step,
     Values,
 )
-from calcs.glossary import GLOSSARY
 
 # ISO 3:1973 basic series R10, rounded values (the preferred numbers used for transformer ratings)
 R10 = (1.0, 1.25, 1.6, 2.0, 2.5, 3.15, 4.0, 5.0, 6.3, 8.0)

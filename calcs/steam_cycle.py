@@ -22,8 +22,10 @@ import math
 from dataclasses import dataclass, field, replace
 from typing import NamedTuple
 
-from basisbook.errors import InputConflict
-from basisbook.spec import (
+from basisbook.calcs.glossary import GLOSSARY
+
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import (
     CalcSpec,
     Chart,
     Check,
@@ -41,7 +43,6 @@ from basisbook.spec import (
     TableSpec,
     Values,
 )
-from calcs.glossary import GLOSSARY
 
 FLUID = "IF97::Water"
 CRITICAL_PRESSURE = 220.64  # bar, IAPWS-IF97 (R7-97) eq. for region 4 ends at the critical point

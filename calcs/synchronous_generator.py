@@ -12,8 +12,10 @@ import math
 from collections.abc import Callable
 from typing import NamedTuple
 
-from basisbook.errors import InputConflict
-from basisbook.spec import (
+from basisbook.calcs.glossary import GLOSSARY
+
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import (
     CalcSpec,
     Chart,
     Check,
@@ -30,7 +32,6 @@ from basisbook.spec import (
     TableSpec,
     Values,
 )
-from calcs.glossary import GLOSSARY
 
 # ---------------------------------------------------------------------------
 # Published models, one function each

@@ -8,11 +8,11 @@ import re
 from pathlib import Path
 
 import pytest
+from basisbook.calcs import auxiliary_load as al
 
-from basisbook.cli import main
-from basisbook.errors import InputConflict
-from basisbook.spec import Record, SourceRow, Values
-from calcs import auxiliary_load as al
+from basisbook.commands.cli import main
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import Record, SourceRow, Values
 
 DEFAULTS = {f.key: f.default for f in al.LOAD_LIST_FIELDS if f.default is not None}
 
@@ -150,7 +150,8 @@ def test_empty_load_list_exit_2(demo_copy: Path, capsys) -> None:
 
 
 def test_xlsx_list_of_the_demo_reads(demo_copy: Path) -> None:
-    from basisbook import engine, project
+    from basisbook.reading import project
+    from basisbook.running import engine
 
     runs = {r.id: r for r in engine.run(project.load(demo_copy))}
     aux2 = runs["aux2"]

@@ -11,7 +11,7 @@ from pathlib import Path
 
 import pytest
 
-from basisbook.cli import main
+from basisbook.commands.cli import main
 
 GEN = "inputs/generators.toml"
 

@@ -19,6 +19,8 @@ from typing import Any
 import pytest
 from conftest import ARTIFACTS
 
+pytestmark = pytest.mark.slow  # the quick loop leaves these out; `--full` runs them
+
 REQUIRED = os.environ.get("BASISBOOK_REQUIRE_BROWSER") == "1"
 ARGS = ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update"]
 
@@ -205,7 +207,7 @@ def test_search_box_finds_symbols_names_and_follows_offline(built_site: Path, pa
 
 
 def test_search_results_keep_hostile_text_inert(demo_copy: Path, tmp_path: Path, page: tuple[Any, Traffic]) -> None:
-    from basisbook.build import build
+    from basisbook.commands.build import build
 
     gen = demo_copy / "inputs" / "generators.toml"
     gen.write_text(gen.read_text().replace('title = "STG-1 steam turbine generator"',
@@ -251,7 +253,7 @@ def test_pdf_first_page_has_nothing_cut_off(demo_copy: Path, tmp_path: Path) -> 
 
     from PIL import Image
 
-    from basisbook.cli import main
+    from basisbook.commands.cli import main
 
     pdf = tmp_path / "handbook.pdf"
     assert main(["pdf", str(demo_copy), "--out", str(tmp_path / "site"), "--pdf", str(pdf)]) == 0

@@ -14,8 +14,8 @@ import xml.etree.ElementTree as ET
 
 import pytest
 
-from basisbook import energyflow
-from basisbook.spec import EnergyFlow
+from basisbook.contract.spec import EnergyFlow
+from basisbook.rendering import energyflow
 
 NS = {"s": "http://www.w3.org/2000/svg"}
 

@@ -6,12 +6,12 @@ from __future__ import annotations
 import re
 from pathlib import Path
 
+import basisbook.calcs.engine_chp as chp
 import pytest
 
-import calcs.engine_chp as chp
-from basisbook.cli import main
-from basisbook.errors import InputConflict
-from basisbook.spec import Result, Values, evaluate_check
+from basisbook.commands.cli import main
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import Result, Values, evaluate_check
 
 # The demo's biogas set (invented numbers, as in project/inputs/chp_and_plant.toml).
 BASE = {

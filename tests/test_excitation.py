@@ -11,15 +11,15 @@ import subprocess
 import sys
 from pathlib import Path
 
+import basisbook.calcs.excitation as ex
 import numpy as np
 import pytest
 from scipy.interpolate import CubicHermiteSpline, PchipInterpolator
 from scipy.signal import lti, step
 
-import calcs.excitation as ex
-from basisbook.cli import main
-from basisbook.errors import InputConflict
-from basisbook.spec import Result, Values, evaluate_check
+from basisbook.commands.cli import main
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import Result, Values, evaluate_check
 
 # STG-1 of the demo project (invented data), with the generator values written out.
 BASE: dict[str, object] = {
@@ -543,7 +543,7 @@ def test_input_conflicts_and_warnings() -> None:
 
 
 def test_module_import_is_light() -> None:
-    code = ("import sys, calcs.excitation; "
+    code = ("import sys, basisbook.calcs.excitation; "
             "bad = [m for m in ('matplotlib', 'pint', 'scipy', 'CoolProp') if m in sys.modules]; "
             "assert not bad, bad")
     subprocess.run([sys.executable, "-c", code], check=True)

@@ -7,9 +7,9 @@ import math
 from pathlib import Path
 
 import pytest
+from basisbook.calcs import fault_levels as fl
 
-from basisbook.cli import main
-from calcs import fault_levels as fl
+from basisbook.commands.cli import main
 
 C = 1.1
 # the demo's small network: 33 kV grid 750 MVA R/X 0.1, 16 MVA 33/11 kV u_k 8 % u_R 0.575 %,
@@ -151,7 +151,8 @@ def test_capability_through_transformer_limits() -> None:
 
 @pytest.mark.filterwarnings("ignore::FutureWarning")
 def test_demo_network_and_single_line(demo_copy: Path) -> None:
-    from basisbook import engine, project
+    from basisbook.reading import project
+    from basisbook.running import engine
 
     runs = {r.id: r for r in engine.run(project.load(demo_copy))}
     net = runs["net1"]

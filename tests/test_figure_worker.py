@@ -14,11 +14,11 @@ from pathlib import Path
 import pytest
 from conftest import DEMO
 
-from basisbook import figure_worker, figures
-from basisbook.build import build
-from basisbook.figure_worker import FigureWorker
-from basisbook.render import RenderCache
-from basisbook.spec import Chart, EnergyFlow, Series
+from basisbook.commands.build import build
+from basisbook.contract.spec import Chart, EnergyFlow, Series
+from basisbook.rendering import figure_worker, figures
+from basisbook.rendering.figure_worker import FigureWorker
+from basisbook.rendering.site import RenderCache
 
 needs_helper = pytest.mark.skipif(not figure_worker.wanted(), reason="no figure helper on this machine")
 
@@ -94,7 +94,7 @@ def test_a_chart_the_helper_cannot_draw_raises_the_real_error_here() -> None:
 
 @needs_helper
 def test_killed_build_leaves_no_helper_behind(tmp_path: Path) -> None:
-    code = ("import os, sys, time; from basisbook.figure_worker import FigureWorker; "
+    code = ("import os, sys, time; from basisbook.rendering.figure_worker import FigureWorker; "
             "w = FigureWorker.start(); print(w._proc.pid, flush=True); time.sleep(60)")
     proc = subprocess.Popen([sys.executable, "-c", code], stdout=subprocess.PIPE, text=True)
     helper = int(proc.stdout.readline())  # type: ignore[union-attr]
@@ -161,7 +161,7 @@ def test_a_cache_that_shares_drawing_gives_the_same_figures() -> None:
 
 @needs_helper
 def test_a_pool_of_two_helpers_delivers_every_chart_once() -> None:
-    from basisbook.figure_worker import FigurePool
+    from basisbook.rendering.figure_worker import FigurePool
 
     first, second = FigureWorker.start(), FigureWorker.start()
     assert first is not None and second is not None

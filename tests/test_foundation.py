@@ -10,13 +10,13 @@ from pathlib import Path
 
 import pytest
 
-from basisbook import engine
-from basisbook.errors import ProjectError
-from basisbook.mathfmt import number_text, substitute, substitute_values, unit_text
-from basisbook.project import InputValue, Source, load
-from basisbook.spec import Check, Range, SpecError, evaluate_check
-from basisbook.tomlpos import key_lines
-from basisbook.units import UnitProblem, to_unit
+from basisbook.contract.errors import ProjectError
+from basisbook.contract.spec import Check, Range, SpecError, evaluate_check
+from basisbook.reading.project import InputValue, Source, load
+from basisbook.reading.tomlpos import key_lines
+from basisbook.reading.units import UnitProblem, to_unit
+from basisbook.rendering.mathfmt import number_text, substitute, substitute_values, unit_text
+from basisbook.running import engine
 
 ROOT = Path(__file__).resolve().parent.parent
 
@@ -170,7 +170,7 @@ def test_demo_results_are_the_hand_calculation(built_site: Path) -> None:
 
 
 def test_sixty_hertz_variant(tmp_path: Path) -> None:
-    from basisbook.build import build
+    from basisbook.commands.build import build
 
     build(ROOT / "examples" / "export-60hz", tmp_path / "site")
     doc = json.loads((tmp_path / "site" / "results.json").read_text())
@@ -189,7 +189,7 @@ def test_sixty_hertz_variant(tmp_path: Path) -> None:
      ("[g](stg1.html#out-x)", True), ("[h](#site)", True)],
 )
 def test_note_links_stay_inside_the_handbook(text: str, kept_as_link: bool) -> None:
-    from basisbook.render import markdown
+    from basisbook.rendering.templating import markdown
 
     html = str(markdown(text))
     assert ("<a " in html or "<img" in html) == kept_as_link, html
@@ -219,8 +219,8 @@ def test_a_calc_that_overflows_gives_a_message_not_a_traceback(demo_copy: Path, 
                                                                 failure: str) -> None:
     # the engine's safety net: values at the far edge of their ranges may still overflow in
     # some module; the user gets file, instance and a hint, never a traceback
-    from basisbook import catalog
-    from basisbook.cli import main
+    from basisbook.commands.cli import main
+    from basisbook.reading import catalog
 
     mod = catalog.module("synchronous_generator")
     real = mod.compute
@@ -244,10 +244,10 @@ def test_a_calc_that_overflows_gives_a_message_not_a_traceback(demo_copy: Path, 
 
 def test_assembled_equations_read_the_same_as_direct_conversion() -> None:
     """Every step of the demo, numbers and result lines: the MathML put together
-    from cached pieces (basisbook.mathfmt.values_mathml) is byte for byte the
+    from cached pieces (basisbook.rendering.mathfmt.values_mathml) is byte for byte the
     converter's own output for the whole line (self-consistency, no outside source)."""
-    from basisbook import mathfmt
-    from basisbook.mathfmt import mathml, quantity_latex, quantity_mathml, values_mathml
+    from basisbook.rendering import mathfmt
+    from basisbook.rendering.mathfmt import mathml, quantity_latex, quantity_mathml, values_mathml
 
     runs = engine.run(load(Path(__file__).resolve().parent.parent / "project"))
     compared = 0
@@ -280,6 +280,6 @@ def test_assembled_equations_read_the_same_as_direct_conversion() -> None:
     ("<mi>a</mi>", None),
 ])
 def test_unwrap_takes_off_exactly_one_row(text: str, content: str | None) -> None:
-    from basisbook.mathfmt import _unwrap
+    from basisbook.rendering.mathfmt import _unwrap
 
     assert _unwrap(text) == content

@@ -3,11 +3,11 @@ Each check names its source beside it."""
 
 from __future__ import annotations
 
+import basisbook.calcs.gas_turbine as gt
 import pytest
 
-import calcs.gas_turbine as gt
-from basisbook.errors import InputConflict
-from basisbook.spec import Result, Values, evaluate_check
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import Result, Values, evaluate_check
 
 K = 273.15
 # The demo's study-option turbine (invented numbers, as in project/inputs/chp_and_plant.toml).

@@ -7,13 +7,13 @@ import math
 import re
 from pathlib import Path
 
+import basisbook.calcs.hydro_unit as hy
 import pytest
 from scipy.optimize import brentq
 
-import calcs.hydro_unit as hy
-from basisbook.cli import main
-from basisbook.errors import InputConflict
-from basisbook.spec import Result, Values
+from basisbook.commands.cli import main
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import Result, Values
 
 # The demo's weir unit (invented numbers, as in project/inputs/chp_and_plant.toml).
 FDC = ((0, 60), (5, 40), (10, 30), (20, 21), (30, 16), (40, 13), (50, 10.5), (60, 8.5), (70, 6.8),

@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from basisbook.build import Builder, build
+from basisbook.commands.build import Builder, build
 
 GEN = "inputs/generators.toml"
 
@@ -79,7 +79,7 @@ def test_a_removed_instance_removes_its_files(demo_copy: Path, tmp_path: Path) -
 def test_a_broken_edit_keeps_the_last_good_site(demo_copy: Path, tmp_path: Path) -> None:
     import pytest
 
-    from basisbook.errors import ProjectError
+    from basisbook.contract.errors import ProjectError
 
     live = tmp_path / "live"
     builder = Builder(demo_copy, live)
@@ -95,7 +95,7 @@ def test_a_broken_edit_keeps_the_last_good_site(demo_copy: Path, tmp_path: Path)
 
 
 def test_partial_sync_writes_but_never_removes(tmp_path: Path) -> None:
-    from basisbook.build import sync
+    from basisbook.commands.build import sync
 
     out = tmp_path / "site"
     known: dict = {}

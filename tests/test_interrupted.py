@@ -12,8 +12,12 @@ import sys
 import time
 from pathlib import Path
 
-from basisbook.archive import verify
-from basisbook.build import build
+import pytest
+
+from basisbook.commands.build import build
+from basisbook.revisions.verify import verify
+
+pytestmark = pytest.mark.slow  # the quick loop leaves these out; `--full` runs them
 
 ROOT = Path(__file__).resolve().parent.parent
 KILLS = int(os.environ.get("BASISBOOK_KILLS", "10"))

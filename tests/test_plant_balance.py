@@ -6,12 +6,12 @@ from __future__ import annotations
 import re
 from pathlib import Path
 
+import basisbook.calcs.plant_balance as pb
 import pytest
 
-import calcs.plant_balance as pb
-from basisbook.cli import main
-from basisbook.errors import InputConflict
-from basisbook.spec import Result, Values
+from basisbook.commands.cli import main
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import Result, Values
 
 ZERO = {i.name: 0.0 for i in pb.SPEC.inputs}
 BASE = {
@@ -94,7 +94,7 @@ def test_warnings() -> None:
 
 def test_demo_links_carry_the_unit_results() -> None:
     # the plant page takes CHP-2's fuel and heat (kW) in MW, HYD-1's output and hours, STG-1's rating
-    from basisbook.build import check
+    from basisbook.commands.build import check
 
     runs = {r.id: r for r in check(Path(__file__).resolve().parent.parent / "project")}
     plant, chp2, hydro = runs["plant"], runs["chp2"], runs["hydro1"]

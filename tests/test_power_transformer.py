@@ -7,11 +7,11 @@ import math
 from pathlib import Path
 
 import pytest
+from basisbook.calcs import power_transformer as pt
 
-from basisbook.cli import main
-from basisbook.errors import InputConflict
-from basisbook.spec import Values
-from calcs import power_transformer as pt
+from basisbook.commands.cli import main
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import Values
 
 
 # ISO 3:1973, basic series R10, rounded values: exact by definition

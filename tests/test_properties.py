@@ -17,9 +17,11 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from basisbook import catalog
-from basisbook.errors import InputConflict
-from basisbook.spec import CalcSpec, Input, Values
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import CalcSpec, Input, Values
+from basisbook.reading import catalog
+
+pytestmark = pytest.mark.slow  # the quick loop leaves these out; `--full` runs them
 
 EXAMPLES = int(os.environ.get("BASISBOOK_EXAMPLES", "200"))
 SETTINGS = settings(max_examples=EXAMPLES, deadline=None, derandomize=True,
@@ -79,8 +81,8 @@ def _demo_inputs() -> dict[str, dict[str, Any]]:
     """The first demo instance of each kind, resolved (links followed)."""
     from pathlib import Path
 
-    from basisbook import engine
-    from basisbook.project import load
+    from basisbook.reading.project import load
+    from basisbook.running import engine
 
     runs = engine.run(load(Path(__file__).resolve().parent.parent / "project"))
     out: dict[str, dict[str, Any]] = {}
@@ -208,7 +210,7 @@ def invariants(kind: str, v: dict[str, Any], out: dict[str, Any]) -> None:
 def _field_current_rises_with_reactive_power(v: dict[str, Any]) -> None:
     """At rated current, a more lagging power factor (more reactive power delivered) needs
     more field current (Potier construction of the module, IEC 60034-4-1)."""
-    from calcs import excitation as ex
+    from basisbook.calcs import excitation as ex
 
     occ = ex.open_circuit_curve(v["open_circuit_characteristic"])
     u_r = v["generator_voltage"]
@@ -318,8 +320,8 @@ ORIGINALS: dict[str, str] = {}  # each target file's demo text, read once
 @given(target=st.sampled_from(LOADER_TARGETS), value=_toml_value())
 def test_loader_gives_a_project_or_located_problems(demo_copy, target: tuple[str, str, str, str],
                                                      value: str) -> None:
-    from basisbook.errors import ProjectError
-    from basisbook.project import load
+    from basisbook.contract.errors import ProjectError
+    from basisbook.reading.project import load
 
     rel, line, instance_id, name = target
     path = demo_copy / rel

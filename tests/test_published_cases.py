@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import pytest
 
-from basisbook import catalog
+from basisbook.reading import catalog
 
 CASES = catalog.published_cases()
 

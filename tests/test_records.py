@@ -7,9 +7,9 @@ from pathlib import Path
 
 import pytest
 
-from basisbook.errors import Problem
-from basisbook.records import display_lines, load_records
-from basisbook.spec import Field, Input, Record
+from basisbook.contract.errors import Problem
+from basisbook.contract.spec import Field, Input, Record
+from basisbook.reading.records import display_lines, load_records
 
 DECL = Input(
     "load_list",

@@ -10,8 +10,11 @@ from pathlib import Path
 import pytest
 from sitecheck import check_links
 
-from basisbook.archive import MANIFEST, archive, verify
-from basisbook.cli import main
+from basisbook.commands.build import snapshot_site
+from basisbook.commands.cli import main
+from basisbook.revisions.archive import archive
+from basisbook.revisions.snapshot import MANIFEST
+from basisbook.revisions.verify import verify
 
 GEN = "inputs/generators.toml"
 
@@ -37,7 +40,7 @@ def _edit(root: Path, rel: str, old: str, new: str) -> None:
 @pytest.fixture
 def archived(single_revision_copy: Path) -> Path:
     """A one-revision demo copy whose revision A has just been archived."""
-    archive(single_revision_copy)
+    archive(single_revision_copy, make_site=snapshot_site)
     return single_revision_copy
 
 
@@ -139,7 +142,7 @@ def test_diff_reports_exactly_the_changes_and_their_consequences(archived: Path,
 
 
 def test_changes_page_and_margin_markers(archived: Path, tmp_path: Path) -> None:
-    from basisbook.build import build
+    from basisbook.commands.build import build
 
     _new_revision(archived, "B")
     _edit(archived, GEN, 'generator_active_power = "1560 kW"', 'generator_active_power = "1950 kW"')
@@ -165,8 +168,8 @@ def test_archive_is_byte_identical_for_the_same_inputs(single_revision_copy: Pat
     root = single_revision_copy
     other = tmp_path / "elsewhere" / "project"
     shutil.copytree(root, other)
-    archive(root)
-    archive(other)
+    archive(root, make_site=snapshot_site)
+    archive(other, make_site=snapshot_site)
     assert (root / "archive" / "rev-A.zip").read_bytes() == (other / "archive" / "rev-A.zip").read_bytes()
 
 
@@ -182,8 +185,8 @@ def test_the_shipped_revision_a_is_unchanged() -> None:
 
 
 def test_demo_revision_b_is_a_bigger_feed_pump_and_a_new_fuel_analysis() -> None:
-    from basisbook.diff import compare, results_for
-    from basisbook.project import load
+    from basisbook.reading.project import load
+    from basisbook.revisions.diff import compare, results_for
 
     cmp = compare(results_for(DEMO, "A"), results_for(DEMO, "B"), load(DEMO).change_tolerance)
     # exactly the edits: two fuel inputs and the two feed-pump rows of the load list

@@ -6,8 +6,8 @@ import xml.etree.ElementTree as ET
 
 import pytest
 
-from basisbook.singleline import svg
-from basisbook.spec import LineElement, SingleLine
+from basisbook.contract.spec import LineElement, SingleLine
+from basisbook.rendering.singleline import svg
 
 NS = "{http://www.w3.org/2000/svg}"
 

@@ -26,8 +26,8 @@ import pytest
 from conftest import DEMO
 from sitecheck import Element, check_links, html_pages, ids_unique, parse
 
-from basisbook import catalog
-from basisbook.build import build
+from basisbook.commands.build import build
+from basisbook.reading import catalog
 
 GOLDEN = Path(__file__).resolve().parent / "golden"
 UPDATE_GOLDEN = os.environ.get("BASISBOOK_UPDATE_GOLDEN") == "1"

@@ -24,12 +24,12 @@ from pathlib import Path
 import pytest
 
 iapws = pytest.importorskip("iapws")
+import basisbook.calcs.steam_cycle as sc  # noqa: E402
 from iapws import IAPWS97  # noqa: E402
 
-import calcs.steam_cycle as sc  # noqa: E402
-from basisbook.cli import main  # noqa: E402
-from basisbook.errors import InputConflict  # noqa: E402
-from basisbook.spec import Values, evaluate_check  # noqa: E402
+from basisbook.commands.cli import main  # noqa: E402
+from basisbook.contract.errors import InputConflict  # noqa: E402
+from basisbook.contract.spec import Values, evaluate_check  # noqa: E402
 
 CYCLE = "inputs/steam_cycle.toml"
 
@@ -413,7 +413,7 @@ def test_input_conflicts() -> None:
 
 def test_module_import_is_light() -> None:
     # CoolProp is imported inside functions only (brief: a module import stays cheap)
-    code = ("import sys, calcs.steam_cycle; "
+    code = ("import sys, basisbook.calcs.steam_cycle; "
             "bad = [m for m in ('CoolProp', 'matplotlib', 'pint', 'iapws') if m in sys.modules]; "
             "assert not bad, bad")
     subprocess.run([sys.executable, "-c", code], check=True)

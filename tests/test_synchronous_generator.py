@@ -8,13 +8,13 @@ import math
 import subprocess
 import sys
 
+import basisbook.calcs.synchronous_generator as sg
 import numpy as np
 import pytest
 from scipy.optimize import brentq, minimize_scalar
 
-import calcs.synchronous_generator as sg
-from basisbook.errors import InputConflict
-from basisbook.spec import Result, Values, evaluate_check
+from basisbook.contract.errors import InputConflict
+from basisbook.contract.spec import Result, Values, evaluate_check
 
 # A 10 MW, 11 kV, 50 Hz, 4-pole turbine generator; invented numbers for the tests only.
 BASE = {
@@ -404,7 +404,7 @@ def test_warnings() -> None:
 
 def test_module_import_is_light() -> None:
     # the module must not pull in plotting or unit libraries (brief: cheap import)
-    code = ("import sys, calcs.synchronous_generator; "
+    code = ("import sys, basisbook.calcs.synchronous_generator; "
             "bad = [m for m in ('matplotlib', 'pint', 'scipy', 'sympy') if m in sys.modules]; "
             "assert not bad, bad")
     subprocess.run([sys.executable, "-c", code], check=True)

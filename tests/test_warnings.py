@@ -8,7 +8,7 @@ from pathlib import Path
 
 import pytest
 
-from basisbook.build import build
+from basisbook.commands.build import build
 
 
 def _edit(root: Path, rel: str, old: str, new: str) -> None:

@@ -79,7 +79,7 @@ def _serve(conn: Any, parent_end: Any) -> None:
                 ready.notify()
 
     threading.Thread(target=read, daemon=True).start()
-    from basisbook import figures
+    from basisbook.rendering import figures
 
     figures.warm_up()  # the import, overlapped with the main process's loading
     done: list[tuple[str, str | None]] = []

@@ -13,7 +13,7 @@ import json
 import textwrap
 from typing import Any
 
-from basisbook.spec import Chart, EnergyFlow
+from basisbook.contract.spec import Chart, EnergyFlow
 
 _STYLES = {"solid": "-", "dashed": "--", "dotted": ":", "dashdot": "-."}
 # A palette that stays readable in print and for common colour-vision deficiencies;
@@ -38,7 +38,7 @@ def chart_key(chart: Chart | EnergyFlow) -> str:
 
 def render_svg(chart: Chart | EnergyFlow, title: str) -> str:
     if isinstance(chart, EnergyFlow):
-        from basisbook.energyflow import svg  # drawn directly: no axes, no matplotlib
+        from basisbook.rendering.energyflow import svg  # drawn directly: no axes, no matplotlib
 
         return svg(chart, title)
     return _render_chart(chart, title)
@@ -58,7 +58,7 @@ def warm_up() -> None:
     """Import matplotlib and draw one throwaway chart, so the font and text caches
     are loaded before the first real figure (a figure helper does this while the
     main process is still loading the project)."""
-    from basisbook.spec import Series
+    from basisbook.contract.spec import Series
 
     render_svg(Chart(x_label="x", y_label="y", series=[Series("s", [0.0, 1.0], [0.0, 1.0])]), "warm-up")
 

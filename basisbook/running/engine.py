@@ -11,10 +11,10 @@ import math
 from collections.abc import Callable
 from dataclasses import dataclass, field
 
-from basisbook import catalog
-from basisbook.errors import InputConflict, Problem, ProjectError
-from basisbook.project import InputValue, Instance, Project, Source, check_range
-from basisbook.spec import Chart, CheckResult, Table, Values, evaluate_check
+from basisbook.contract.errors import InputConflict, Problem, ProjectError
+from basisbook.contract.spec import Chart, CheckResult, Table, Values, evaluate_check
+from basisbook.reading import catalog
+from basisbook.reading.project import InputValue, Instance, Project, Source, check_range
 
 
 @dataclass
@@ -65,7 +65,7 @@ def dependency_order(project: Project) -> list[Instance]:
                 continue
             spec = by_id[target].spec
             if out not in spec.output_names and out not in spec.input_names:
-                from basisbook.project import _suggest
+                from basisbook.reading.project import _suggest
 
                 problems.append(Problem(*where, f"link to {target}.{out}: {spec.kind} has no output "
                                         f"or input {out!r}"
@@ -115,7 +115,7 @@ def _link_value(project: Project, runs: dict[str, CalcRun], iv: InputValue) -> t
 def _convert_link(value: float | str, unit: str, iv: InputValue) -> float | str:
     if isinstance(value, str) or unit == iv.unit:
         return value
-    from basisbook.units import to_unit
+    from basisbook.reading.units import to_unit
 
     return to_unit(f"{value!r} {unit}" if unit else repr(value), iv.unit)
 

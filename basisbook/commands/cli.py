@@ -10,7 +10,7 @@ import sys
 from pathlib import Path
 
 from basisbook import __version__
-from basisbook.errors import ProjectError
+from basisbook.contract.errors import ProjectError
 
 
 def _parser() -> argparse.ArgumentParser:
@@ -51,7 +51,7 @@ def _parser() -> argparse.ArgumentParser:
 
 def _run(args: argparse.Namespace) -> int:
     if args.command == "check":
-        from basisbook.build import check
+        from basisbook.commands.build import check
 
         runs = check(args.project, run_calcs=not args.inputs_only)
         if args.inputs_only:
@@ -65,32 +65,33 @@ def _run(args: argparse.Namespace) -> int:
               f"{fails} fail, {review} to review; {warnings} plausibility warnings")
         return 0
     if args.command == "build":
-        from basisbook.build import build
+        from basisbook.commands.build import build
 
         pages, out = build(args.project, args.out)
         print(f"built {pages} pages into {out}")
         return 0
     if args.command == "serve":
-        from basisbook.serve import serve
+        from basisbook.commands.serve import serve
 
         return serve(args.project, args.out, args.port)
     if args.command == "pdf":
-        from basisbook.build import build
-        from basisbook.pdf import print_pdf
-        from basisbook.project import load
+        from basisbook.commands.build import build
+        from basisbook.commands.pdf import print_pdf
+        from basisbook.reading.project import load
 
         pages, out = build(args.project, args.out)
         target = args.pdf or out.parent / f"handbook-rev{load(args.project).revision.id}.pdf"
         print(f"built {pages} pages into {out}; printed {print_pdf(out, target)}")
         return 0
     if args.command == "archive":
-        from basisbook.archive import archive
+        from basisbook.commands.build import snapshot_site
+        from basisbook.revisions.archive import archive
 
-        dest = archive(args.project)
+        dest = archive(args.project, make_site=snapshot_site)
         print(f"archived revision into {dest} (and {dest.name}.zip)")
         return 0
     if args.command == "verify":
-        from basisbook.archive import verify
+        from basisbook.revisions.verify import verify
 
         v = verify(args.snapshot, rebuild=args.rebuild)
         for label, names in (("added", v.added), ("missing", v.missing), ("changed", v.changed)):
@@ -105,8 +106,8 @@ def _run(args: argparse.Namespace) -> int:
         print(f"{args.snapshot}: revision {v.revision} does NOT match its manifest", file=sys.stderr)
         return 1
     if args.command == "diff":
-        from basisbook.diff import compare, report, results_for
-        from basisbook.project import load
+        from basisbook.reading.project import load
+        from basisbook.revisions.diff import compare, report, results_for
 
         tol = load(args.project).change_tolerance
         print(report(compare(results_for(args.project, args.old), results_for(args.project, args.new), tol)))

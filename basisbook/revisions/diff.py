@@ -7,11 +7,19 @@ rendered.  Numbers count as moved only past the project's relative tolerance.
 
 from __future__ import annotations
 
+import json
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from basisbook.errors import Problem, ProjectError
+from basisbook.contract.errors import Problem, ProjectError
+from basisbook.reading import project as project_mod
+from basisbook.reading.project import Project
+from basisbook.rendering.mathfmt import format_value, unit_text
+from basisbook.revisions import snapshot
+from basisbook.running import engine
+from basisbook.running.engine import CalcRun
+from basisbook.running.results import results_document
 
 
 @dataclass
@@ -128,12 +136,7 @@ def _rows(cmp: Comparison, iid: str, name: str, old: list, new: list, unit: str)
 
 
 def current_results(project_root: Path) -> dict[str, Any]:
-    import json
-
-    from basisbook import engine
-    from basisbook import project as project_mod
-    from basisbook.render import results_document
-
+    """The results model of the current inputs, computed now."""
     proj = project_mod.load(project_root)
     # through JSON, so both sides have the same types (tuples become lists)
     return json.loads(json.dumps(results_document(proj, engine.run(proj))))
@@ -141,10 +144,7 @@ def current_results(project_root: Path) -> dict[str, Any]:
 
 def results_for(project_root: Path, rev_id: str) -> dict[str, Any]:
     """An archived revision's results, or the current inputs' if ``rev_id`` is current."""
-    from basisbook import archive
-    from basisbook import project as project_mod
-
-    snap = archive.load_snapshot_results(project_root, rev_id)
+    snap = snapshot.load_results(project_root, rev_id)
     if snap is not None:
         return snap
     proj = project_mod.load(project_root)
@@ -154,38 +154,26 @@ def results_for(project_root: Path, rev_id: str) -> dict[str, Any]:
     if rev_id in ids:
         raise ProjectError([Problem("revisions.toml", None, "revision",
                                     f"revision {rev_id!r} was never archived, so its results are unknown; "
-                                    f"archived: {', '.join(archived_ids(project_root)) or 'none'}")])
+                                    f"archived: {', '.join(snapshot.archived_ids(project_root)) or 'none'}")])
     raise ProjectError([Problem("revisions.toml", None, "revision",
                                 f"unknown revision {rev_id!r}; revisions: {', '.join(ids)}")])
 
 
-def archived_ids(project_root: Path) -> list[str]:
-    from basisbook import archive
-
-    root = archive.archive_root(project_root)
-    if not root.is_dir():
-        return []
-    return sorted(p.name[4:] for p in root.iterdir() if p.is_dir() and p.name.startswith("rev-"))
-
-
-def format_value(v: Any) -> str:
-    from basisbook.mathfmt import number_text
-
-    if v is None:
-        return "—"
-    if isinstance(v, list):
-        return "[" + ", ".join(format_value(x) for x in v) + "]"
-    if isinstance(v, dict):
-        return ", ".join(f"{k} {format_value(x)}" for k, x in v.items())
-    if isinstance(v, float):
-        return number_text(v)
-    return str(v)
+def previous_comparison(project: Project, runs: list[CalcRun]) -> Comparison | None:
+    """Compare the current results with the archived revision before the current one, if
+    there is one (the build hands this to the renderer for the changes page and marks)."""
+    if len(project.revisions) < 2:
+        return None
+    prev = project.revisions[-2]
+    old = snapshot.load_results(project.root, prev.id)
+    if old is None:
+        return None
+    new = json.loads(json.dumps(results_document(project, runs)))
+    return compare(old, new, project.change_tolerance)
 
 
 def report(cmp: Comparison) -> str:
     """Plain-text report for the terminal."""
-    from basisbook.mathfmt import unit_text
-
     lines = [f"changes from revision {cmp.old_rev} to {cmp.new_rev} "
              f"(outputs past a relative tolerance of {cmp.tolerance:g})"]
     if not cmp.changes:

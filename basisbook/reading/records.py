@@ -13,9 +13,9 @@ import io
 from pathlib import Path
 from typing import Any
 
-from basisbook.errors import Problem
-from basisbook.spec import Field, Input, Record, SourceRow
-from basisbook.units import UnitProblem, to_unit
+from basisbook.contract.errors import Problem
+from basisbook.contract.spec import Field, Input, Record, SourceRow
+from basisbook.reading.units import UnitProblem, to_unit
 
 MAX_BYTES = 20 * 1024 * 1024  # a load list is kilobytes; refuse what is clearly not one
 TRUE_WORDS = {"yes": "yes", "y": "yes", "true": "yes", "1": "yes", "no": "no", "n": "no",

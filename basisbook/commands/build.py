@@ -18,11 +18,15 @@ import tempfile
 from dataclasses import dataclass
 from pathlib import Path
 
-from basisbook import engine
-from basisbook import project as project_mod
-from basisbook.errors import Problem, ProjectError
-from basisbook.figure_worker import FigurePool, FigureWorker
-from basisbook.render import SITE_MARKER, RenderCache, render_files, write_files
+from basisbook.contract.errors import Problem, ProjectError
+from basisbook.reading import project as project_mod
+from basisbook.reading.project import Project
+from basisbook.rendering.figure_worker import FigurePool, FigureWorker
+from basisbook.rendering.site import SITE_MARKER, RenderCache, render_files, write_files
+from basisbook.revisions import snapshot
+from basisbook.revisions.diff import previous_comparison
+from basisbook.running import engine
+from basisbook.running.engine import CalcRun
 
 
 def check(root: Path, run_calcs: bool = True) -> list:
@@ -58,7 +62,7 @@ def build(root: Path, out: Path) -> tuple[int, Path]:
         proj = project_mod.load(root)
         cache.start()
         runs = engine.run(proj, on_run=cache.request_run)  # figures go to the helper as they come
-        files = render_files(proj, runs, cache)
+        files = site_files(proj, runs, cache)
     finally:
         cache.close()
     out.parent.mkdir(parents=True, exist_ok=True)
@@ -71,6 +75,23 @@ def build(root: Path, out: Path) -> tuple[int, Path]:
         shutil.rmtree(tmp, ignore_errors=True)
         raise
     return sum(1 for w in files if w.endswith(".html")), out
+
+
+def site_files(proj: Project, runs: list[CalcRun], cache: RenderCache | None = None,
+               complete: bool = True) -> dict[str, bytes]:
+    """The live site's files: the build asks revisions for the comparison with the previous
+    archived revision and for the archived handbooks, and hands both to the renderer."""
+    return render_files(proj, runs, cache, comparison=previous_comparison(proj, runs),
+                        archived=snapshot.archived_sites(proj), complete=complete)
+
+
+def snapshot_site(proj: Project, out: Path) -> None:
+    """Write the current revision's own site into the empty folder ``out``, as archived:
+    no copies of other snapshots (snapshots never nest), but its changes page."""
+    runs = engine.run(proj)
+    files = render_files(proj, runs, comparison=previous_comparison(proj, runs),
+                         as_snapshot=proj.revision.id)
+    write_files(files, out)
 
 
 _RENAME_EXCHANGE = 2  # linux/fs.h
@@ -149,7 +170,7 @@ class Builder:
             # a long-lived process: load matplotlib here too, once (about 0.4 s at start-up),
             # so that this process can take over charts; a second helper forked after that
             # has nothing to import, and a rebuild's few charts are drawn side by side
-            from basisbook import figures
+            from basisbook.rendering import figures
 
             figures.warm_up()
             second = FigureWorker.start()
@@ -175,7 +196,7 @@ class Builder:
         import hashlib
 
         from basisbook import __version__
-        from basisbook.render import builtin_templates
+        from basisbook.rendering.templating import builtin_templates
 
         h = hashlib.sha256(__version__.encode())
         root = self.root.resolve()
@@ -208,7 +229,7 @@ class Builder:
         self.render_cache.start()
         try:
             runs = engine.run(proj, self.compute_cache, on_run=self.render_cache.request_run)
-            files = render_files(proj, runs, self.render_cache, complete=False)
+            files = site_files(proj, runs, self.render_cache, complete=False)
             # the pages go out while the helpers finish the figures; then the rest
             early, _ = sync(files, self.out, self._known, remove=False)
             self.render_cache.complete(files)

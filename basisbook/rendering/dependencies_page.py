@@ -1,4 +1,5 @@
-"""The dependency map: calc instances as boxes, links as arrows, drawn as SVG.
+"""The dependency map page: calc instances as boxes, links as arrows, drawn as SVG,
+and the list of every link.
 
 Our own layered layout: a node's column is the length of the longest chain of
 links that feeds it, rows keep the project's order.  The SVG is written by
@@ -9,8 +10,12 @@ output is deterministic.
 from __future__ import annotations
 
 from html import escape
+from typing import Any
 
-from basisbook.engine import CalcRun
+from markupsafe import Markup
+
+from basisbook.rendering.common import source_view
+from basisbook.running.engine import CalcRun
 
 BOX_W, BOX_H, COL_GAP, ROW_GAP, PAD = 250, 54, 100, 26, 16
 
@@ -90,3 +95,16 @@ def svg(runs: list[CalcRun]) -> str:
                      f'{escape(_short(kinds[node], 30))}</text></g></a>')
     parts.append("</svg>")
     return "\n".join(parts)
+
+
+def depmap_view(runs: list[CalcRun]) -> dict[str, Any]:
+    links = []
+    for r in runs:
+        for decl in r.spec.inputs:
+            iv = r.inputs[decl.name]
+            if iv.source.link:
+                view = source_view(iv, "", {x.id: x for x in runs})
+                links.append({"to": f"{r.id}.{decl.name}", "to_href": f"{r.id}.html#in-{decl.name}",
+                              "from": view["label"], "from_href": view["href"]})
+    return {"map_svg": Markup(svg(runs)), "links": links}
+

@@ -16,10 +16,10 @@ from __future__ import annotations
 
 import textwrap
 
-from basisbook.mathfmt import number_text, unit_text
-from basisbook.singleline import svg_number
-from basisbook.singleline import svg_text as _e
-from basisbook.spec import EnergyFlow
+from basisbook.contract.spec import EnergyFlow
+from basisbook.rendering.mathfmt import number_text, unit_text
+from basisbook.rendering.singleline import svg_number
+from basisbook.rendering.singleline import svg_text as _e
 
 FONT = 13           # label font size, px (the page shows the figure 640 px wide)
 TITLE_FONT = 15

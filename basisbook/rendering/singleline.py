@@ -1,6 +1,6 @@
 """Key single-line diagram as inline SVG (renderer layer: drawing only, no physics).
 
-The diagram is a tree from the grid down (``SingleLine`` in basisbook/spec.py).
+The diagram is a tree from the grid down (``SingleLine`` in basisbook/contract/spec.py).
 Each element is drawn with a hand-made graphical symbol in the manner of
 IEC 60617 (generator and motor circles with a letter and a tilde, a two-winding
 transformer as two overlapping circles, a busbar as a thick line, a
@@ -16,7 +16,7 @@ from __future__ import annotations
 import html
 from dataclasses import dataclass
 
-from basisbook.spec import LineElement, SingleLine
+from basisbook.contract.spec import LineElement, SingleLine
 
 COLUMN = 250        # width given to each leaf of the tree, px
 ROW = 78            # vertical pitch of the tree levels, px

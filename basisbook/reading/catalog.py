@@ -1,4 +1,4 @@
-"""The calc modules available to a project: every module in ``calcs/`` with a SPEC."""
+"""The calc modules available to a project: every module in ``calcs/`` (``basisbook.calcs``) with a SPEC."""
 
 from __future__ import annotations
 
@@ -7,20 +7,20 @@ import pkgutil
 from functools import lru_cache
 from types import ModuleType
 
-from basisbook.spec import CalcSpec, PublishedCase
+from basisbook.contract.spec import CalcSpec, PublishedCase
 
 _NOT_CALCS = {"glossary"}
 
 
 @lru_cache(maxsize=1)
 def _modules() -> dict[str, ModuleType]:
-    import calcs
+    from basisbook import calcs
 
     found: dict[str, ModuleType] = {}
     for info in sorted(pkgutil.iter_modules(calcs.__path__), key=lambda i: i.name):
         if info.name in _NOT_CALCS or info.name.startswith("_"):
             continue
-        mod = importlib.import_module(f"calcs.{info.name}")
+        mod = importlib.import_module(f"basisbook.calcs.{info.name}")
         spec = getattr(mod, "SPEC", None)
         if isinstance(spec, CalcSpec) and callable(getattr(mod, "compute", None)):
             found[spec.kind] = mod

@@ -11,7 +11,7 @@ import subprocess
 import tempfile
 from pathlib import Path
 
-from basisbook.errors import Problem, ProjectError
+from basisbook.contract.errors import Problem, ProjectError
 
 BROWSERS = ("chromium", "chromium-browser", "google-chrome")
 FLAGS = ("--headless", "--no-sandbox", "--disable-gpu", "--disable-background-networking",

@@ -25,11 +25,11 @@ from functools import lru_cache
 from pathlib import Path
 from typing import Any
 
-from basisbook import catalog
-from basisbook.errors import Problem, ProjectError
-from basisbook.spec import CalcSpec, Input, Record
-from basisbook.tomlpos import key_lines, line_of
-from basisbook.units import UnitProblem, to_unit
+from basisbook.contract.errors import Problem, ProjectError
+from basisbook.contract.spec import CalcSpec, Input, Record
+from basisbook.reading import catalog
+from basisbook.reading.tomlpos import key_lines, line_of
+from basisbook.reading.units import UnitProblem, to_unit
 
 MAX_TOML_BYTES = 2 * 1024 * 1024
 INSTANCE_ID = re.compile(r"^[a-z][a-z0-9_-]{0,39}$")
@@ -479,7 +479,7 @@ def _load_instance(block: Any, idx: int, rel: str, lines: dict, out: _Collector,
             continue
         raw = given[decl.name]
         if decl.kind == "records":
-            from basisbook.records import load_records
+            from basisbook.reading.records import load_records
 
             loaded = load_records(decl, raw, root, rel, kl, key, out.problems)
             if loaded is not None:

@@ -18,8 +18,8 @@ from http.server import SimpleHTTPRequestHandler, ThreadingHTTPServer
 from pathlib import Path
 from typing import Any
 
-from basisbook.build import Builder
-from basisbook.errors import ProjectError
+from basisbook.commands.build import Builder
+from basisbook.contract.errors import ProjectError
 
 STATE_PATH = "/__basisbook/state"
 SCRIPT_PATH = "/__basisbook/live.js"

@@ -11,8 +11,9 @@ import math
 import re
 from collections.abc import Callable
 from functools import lru_cache
+from typing import Any
 
-from basisbook.spec import PLACEHOLDER
+from basisbook.contract.spec import PLACEHOLDER
 
 SIGNIFICANT = 4
 _SUPERSCRIPT = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
@@ -215,3 +216,17 @@ def quantity_mathml(symbol: str, quantity: str, display: bool = True) -> str:
         return mathml("{" + symbol + "} = " + quantity, display)
     m = mathml("x", display)  # the converter's own <math> element, display attribute included
     return f"{m[: m.index('>') + 1]}<mrow><mrow>{sym}</mrow><mo>&#x0003D;</mo>{q}</mrow></math>"
+
+
+def format_value(v: Any) -> str:
+    """A value from a results model as text: numbers in the one number style, lists and
+    records item by item, nothing as a dash."""
+    if v is None:
+        return "—"
+    if isinstance(v, list):
+        return "[" + ", ".join(format_value(x) for x in v) + "]"
+    if isinstance(v, dict):
+        return ", ".join(f"{k} {format_value(x)}" for k, x in v.items())
+    if isinstance(v, float):
+        return number_text(v)
+    return str(v)

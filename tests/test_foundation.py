@@ -129,7 +129,8 @@ def test_three_ways_of_showing_a_step() -> None:
     expr = r"\frac{@p}{@pf}"
     assert substitute(expr, {"p": "P_r", "pf": r"\cos\varphi"}) == r"\frac{{P_r}}{{\cos\varphi}}"
     numeric = substitute_values(expr, {"p": (12.5, "MW"), "pf": (0.8, "")})
-    assert "12.50" in numeric and r"\text{MW}" in numeric and "0.8000" in numeric
+    # substituted values as typed (12.5, 0.8), not padded to four figures
+    assert "{12.5\\,\\text{MW}}" in numeric and "{0.8}" in numeric and "0.8000" not in numeric
     # juxtaposed numbers get an explicit product sign: "20 0.915" would misread
     assert r"\cdot" in substitute_values(r"@n\,@k", {"n": (20.0, ""), "k": (0.915, "")})
     assert unit_text("m**3/s") == "m³/s" and unit_text("degC") == "°C"
@@ -283,3 +284,193 @@ def test_unwrap_takes_off_exactly_one_row(text: str, content: str | None) -> Non
     from basisbook.rendering.mathfmt import _unwrap
 
     assert _unwrap(text) == content
+
+
+# --- hardened reading: the grammar of a value, kinds of quantity, shapes and links --------
+
+@pytest.mark.parametrize(
+    ("text", "unit", "message"),
+    [
+        ("9**9**9 MW", "MW", "no arithmetic and no powers of numbers"),  # never returned in pint
+        ("10**400 MW", "MW", "no arithmetic and no powers of numbers"),  # OverflowError in pint
+        ("11 kV + 1 kV", "kV", "no arithmetic"),  # pint added it up to 12 kV
+        ("2*6 kV", "kV", "no arithmetic"),
+        ("kV", "kV", "a unit without a number"),  # pint read it as 1 kV
+        ("kV 11", "kV", "the number comes first, like '11 kV'"),  # pint read it as 11 kV
+        ("13,2 MW", "MW", r"write the decimal mark as a point, like '13.2 MW'"),  # pint read 132 MW
+        ("1,000 kW", "kW", "if it separates thousands"),
+        ("1e300 kW", "MW", "too large"),
+        ("1e15 TW", "MW", r"too large: '1e15 TW' is 1e\+21 MW"),  # bound in the declared unit
+        ("1 m**9", "m", "could not read"),  # powers of units are small integers only
+        ("x" * 100, "kV", "longer than 64 characters"),
+        ("12.5 MVA", "MW", r"'12.5 MVA' is an apparent power \(VA\), expected an active power \(W\) in MW"),
+        ("12.5 MW", "MVA", "is an active power"),
+        ("1 MVAh", "MWh", "is an apparent energy"),
+        ("5 Mvarh", "MWh", "is a reactive energy"),
+        ("50 Hz", "rpm", "'50 Hz' is a frequency, expected a rotational speed in rpm"),
+        ("3000 rpm", "Hz", "'3000 rpm' is a rotational speed, expected a frequency in Hz"),
+        ("1500 1/min", "rpm", "write a speed as '1500 rpm' or '1500 r/min'"),  # pint: 2 pi off
+        ("314 rad/s", "Hz", "is a rotational speed"),  # angular frequency is not f
+        ("60 %", "deg", "is a plain number, expected an angle"),
+        ("0.5 rad", "", "is an angle, expected a plain number"),
+    ],
+)
+def test_values_outside_the_grammar_or_of_the_wrong_kind_are_refused(text: str, unit: str, message: str) -> None:
+    with pytest.raises(UnitProblem, match=message):
+        to_unit(text, unit)
+
+
+@pytest.mark.parametrize(
+    ("text", "unit", "expected"),
+    [
+        ("1500 r/min", "rpm", 1500.0),  # r/min is the IEC way of writing rpm
+        ("157.07963267948966 rad/s", "rpm", 1500.0),  # omega = 2 pi n / 60, exact
+        ("2 kJ/(kg*K)", "kJ/(kg*K)", 2.0),
+        ("14 m^3/s", "m**3/s", 14.0),
+        ("1.5e3 kW", "MW", 1.5),
+        ("-.5 MW", "kW", -500.0),
+        ("5 MVA", "kVA", 5000.0),
+        ("1 GWh", "MWh", 1000.0),
+        ("1 MVAh", "kVAh", 1000.0),
+        ("36 °C", "degC", 36.0),
+        ("1e15", "", 1e15),  # the bound itself is read
+    ],
+)
+def test_values_inside_the_grammar_still_convert(text: str, unit: str, expected: float) -> None:
+    assert to_unit(text, unit) == pytest.approx(expected, rel=1e-12)
+
+
+def test_hostile_values_return_at_once() -> None:
+    import time
+
+    start = time.perf_counter()
+    for text in ("9**9**9 MW", "10**400 MW", "9^9^9 MW", "(" * 60 + "kV", "1" * 60 + " kV", "1e999 kV"):
+        with pytest.raises(UnitProblem):
+            to_unit(text, "MW")
+    with pytest.raises(UnitProblem, match="an integer of 401 digits"):
+        to_unit(10**400, "MW")  # float() of it raises OverflowError
+    with pytest.raises(UnitProblem, match="over 4000 digits"):
+        to_unit(10**5000, "MW")  # str() of it raises ValueError (the int digit limit)
+    assert time.perf_counter() - start < 1.0
+
+
+def test_a_link_from_apparent_into_active_power_is_refused() -> None:
+    iv = InputValue("p", None, "MW", Source("f.toml", 3, link=("stg1", "generator_apparent_power")))
+    with pytest.raises(UnitProblem, match="is an apparent power"):
+        engine._convert_link(15.625, "MVA", iv)
+    speed = InputValue("n", None, "rpm", Source("f.toml", 3, link=("site", "grid_frequency")))
+    with pytest.raises(UnitProblem, match="is a frequency, expected a rotational speed"):
+        engine._convert_link(50.0, "Hz", speed)
+
+
+@pytest.mark.parametrize(
+    ("value", "later"),
+    [
+        ('"""a \\" b"""', 2),  # an escaped quote inside a one-line multi-line string
+        ('"""\n\\"""\n[[instance]]\nid = "x"\n"""', 6),  # an escaped quote before two more
+        ('"""a \\""" b\n[[instance]]\n"""', 4),  # the same on the opening line
+        ('"""a\n\\\\"""', 3),  # an escaped backslash: the quotes close the string
+        ('"""x """" ', 2),  # a quote of the content touching the delimiter
+        ("'''\n[[instance]]\nid = 'x'\n'''", 5),  # a literal multi-line string holds no keys
+        ("'''x \\'''", 2),  # no escapes in a literal string: the backslash is text
+        ('[ """\n]\n""" ]', 4),  # a bracket inside a string is not one of the array
+    ],
+)
+def test_key_lines_after_multiline_strings(value: str, later: int) -> None:
+    import tomllib
+
+    text = f"a = {value}\nb = 1\n[[instance]]\nid = \"real\"\n"
+    tomllib.loads(text)  # the fixture is valid TOML
+    lines = key_lines(text)
+    assert lines[("b",)] == later
+    assert lines[("instance", 0, "id")] == later + 2
+    assert ("instance", 1) not in lines
+
+
+def test_key_lines_give_an_array_of_tables_its_first_line() -> None:
+    lines = key_lines("x = 1\n[[instanse]]\nid = 'a'\n[[instanse]]\nid = 'b'\n")
+    assert lines[("instanse",)] == 2 and lines[("instanse", 1, "id")] == 5
+
+
+def test_a_byte_order_mark_is_accepted(demo_copy: Path) -> None:
+    p = demo_copy / "inputs" / "generators.toml"
+    p.write_bytes(b"\xef\xbb\xbf" + p.read_bytes())
+    project = load(demo_copy)
+    assert project.instance("stg1").inputs["generator_voltage"].source.line == 14
+
+
+@pytest.mark.parametrize("opening", ["[", "{a = "])
+def test_values_nested_100000_deep_are_refused_not_a_traceback(demo_copy: Path, opening: str) -> None:
+    closing = "]" if opening == "[" else "}"
+    with (demo_copy / "inputs" / "generators.toml").open("a", encoding="utf-8") as f:
+        f.write("\n[deep]\nx = " + opening * 100_000 + "1" + closing * 100_000 + "\n")
+    with pytest.raises(ProjectError, match="inputs/generators.toml: arrays or inline tables are nested too deep"):
+        load(demo_copy)
+
+
+def test_a_revision_id_must_be_one_identifier(demo_copy: Path) -> None:
+    p = demo_copy / "revisions.toml"
+    for bad in ("B\\n", ".B", "B/C", "B C", "B" * 21):
+        p.write_text((ROOT / "project" / "revisions.toml").read_text().replace('id = "B"', f'id = "{bad}"'))
+        with pytest.raises(ProjectError, match=r"\[revision.id\] expected a revision id"):
+            load(demo_copy)
+    p.write_text((ROOT / "project" / "revisions.toml").read_text().replace('id = "B"', 'id = "B.1-x"'))
+    assert load(demo_copy).revision.id == "B.1-x"
+
+
+def _outside(tmp_path: Path, demo_copy: Path, name: str) -> Path:
+    """Move ``name`` of the demo copy out of the project and leave a link in its place."""
+    target = tmp_path / f"outside-{Path(name).name}"
+    (demo_copy / name).rename(target)
+    (demo_copy / name).symlink_to(target, target_is_directory=target.is_dir())
+    return target
+
+
+@pytest.mark.parametrize("name", ["inputs", "project.toml", "revisions.toml", "inputs/generators.toml"])
+def test_a_link_out_of_the_project_is_refused(demo_copy: Path, tmp_path: Path, name: str) -> None:
+    _outside(tmp_path, demo_copy, name)
+    with pytest.raises(ProjectError, match=rf"{re.escape(name)}: is a link to a (file|folder) outside the project"):
+        load(demo_copy)
+
+
+def test_templates_linked_out_of_the_project_are_refused(demo_copy: Path, tmp_path: Path) -> None:
+    elsewhere = tmp_path / "elsewhere"
+    (elsewhere / "static").mkdir(parents=True)
+    (elsewhere / "static" / "style.css").write_text("body {}")
+    (demo_copy / "templates").symlink_to(elsewhere, target_is_directory=True)
+    with pytest.raises(ProjectError, match="templates: is a link to a folder outside the project"):
+        load(demo_copy)
+    (demo_copy / "templates").unlink()
+    (demo_copy / "templates" / "static").mkdir(parents=True)
+    (demo_copy / "templates" / "static" / "style.css").symlink_to(elsewhere / "static" / "style.css")
+    with pytest.raises(ProjectError, match="templates/static/style.css: is a link to a file outside"):
+        load(demo_copy)
+    (demo_copy / "templates" / "static" / "style.css").unlink()
+    (demo_copy / "templates" / "static" / "style.css").write_text("body {}")
+    load(demo_copy)  # a real override inside the project is fine
+
+
+@pytest.mark.parametrize(
+    ("x", "text"),
+    [(15.625, "15.625"), (0.8, "0.8"), (11.0, "11"), (6350.852961085884, "6350.85"), (0.915, "0.915"),
+     (1.5625e-05, "1.5625×10⁻⁵"), (-3.25, "-3.25"), (123456789.0, "1.23457×10⁸")],
+)
+def test_substituted_values_carry_up_to_six_significant_figures(x: float, text: str) -> None:
+    from basisbook.rendering.mathfmt import substituted_text
+
+    assert substituted_text(x) == text
+
+
+def test_a_numbers_line_recomputes_to_the_result_as_printed() -> None:
+    # the reviewer's check: I_r = S_r 10^3 / (sqrt(3) U_r) with S_r = 15.625 MVA, U_r = 11 kV;
+    # printed at four figures the inputs would give 15.62e3/(sqrt(3)*11) = 819.8 A, not 820.1 A
+    import math
+
+    from basisbook.rendering.mathfmt import number_text, substituted_text
+
+    s_r, u_r = 12.5 / 0.8, 11.0
+    result = s_r * 1e3 / (math.sqrt(3) * u_r)
+    shown = float(substituted_text(s_r)) * 1e3 / (math.sqrt(3) * float(substituted_text(u_r)))
+    assert number_text(shown) == number_text(result) == "820.1"
+    four = float(number_text(s_r)) * 1e3 / (math.sqrt(3) * u_r)
+    assert number_text(four) == "819.8"  # why four figures in a numbers line would not do

@@ -71,7 +71,7 @@ def test_semicolon_csv_and_bom(tmp_path: Path) -> None:
         (("F-201", "P-101A"), 5, "tag", "duplicate tag 'P-101A' (first at loads.csv:3)"),
         (("250,0.88", ",0.88"), 3, "rated_power", "missing value: expected rated power in kW"),
         (("250,0.88", "lots,0.88"), 3, "rated_power", "could not read 'lots'"),
-        (("250,0.88", "250 kg,0.88"), 3, "rated_power", "is a mass, expected a power"),
+        (("250,0.88", "250 kg,0.88"), 3, "rated_power", "is a mass, expected an active power"),
         (("rated_power", "rated_pwer"), 2, "rated_pwer", "unknown column; did you mean 'rated_power'"),
     ],
 )
@@ -133,3 +133,110 @@ def test_xlsx_reads_like_csv_with_sheet_rows(tmp_path: Path) -> None:
     assert [(r["tag"], r["rated_power"], r.source.line) for r in records] == [("P-101A", 250.0, 2), ("F-201", 180.0, 4)]
     lines = display_lines(tmp_path / "loads.xlsx")
     assert lines[0] == "tag | rated_power | duty | essential" and lines[3].startswith("F-201")
+
+
+# --- conventions, row shapes and workbooks that would read wrongly ------------------------
+
+def test_semicolon_csv_reads_the_decimal_comma_and_says_so(tmp_path: Path) -> None:
+    from basisbook.reading.records import convention
+
+    text = "tag;rated_power;power_factor;duty\nP-1;355,5 kW;0,88;continuous\nP-2;-;;standby\n".replace("-;", "75;")
+    (records, _), problems = _load(tmp_path, text)
+    assert problems == []
+    assert records[0]["rated_power"] == pytest.approx(355.5)  # was 3555 kW: the comma dropped
+    assert records[0]["power_factor"] == pytest.approx(0.88)
+    assert convention(tmp_path / "loads.csv").decimal == ","
+    assert "decimal comma" in convention(tmp_path / "loads.csv").text()
+    (tmp_path / "comma.csv").write_text(GOOD)
+    assert convention(tmp_path / "comma.csv").text() == "CSV, cells separated by commas, numbers with a decimal point (355.5 kW)"
+
+
+@pytest.mark.parametrize("cell", ["355.5 kW", "1.355,5 kW", "1,355,5"])
+def test_semicolon_csv_refuses_a_point_in_a_number(tmp_path: Path, cell: str) -> None:
+    _, problems = _load(tmp_path, f"tag;rated_power;duty\nP-1;{cell};continuous\n")
+    assert [(p.line, p.key) for p in problems] == [(2, "rated_power")]
+    assert "is ambiguous" in problems[0].message and "like '355,5 kW'" in problems[0].message
+
+
+def test_a_quoted_decimal_comma_in_a_comma_csv_is_refused(tmp_path: Path) -> None:
+    _, problems = _load(tmp_path, GOOD.replace("250,0.88", '"250,5",0.88'))
+    assert any(p.line == 3 and p.key == "rated_power" and "like '250.5'" in p.message for p in problems), problems
+
+
+@pytest.mark.parametrize(
+    ("old", "new", "message"),
+    [("continuous,yes\n", "continuous,yes,extra\n", "7 cells, but the header names 6 columns: a comma inside a number"),
+     ("continuous,yes\n", "continuous\n", "5 cells, but the header names 6 columns: a cell left out?")],
+)
+def test_a_row_wider_or_narrower_than_the_header_is_refused(tmp_path: Path, old: str, new: str, message: str) -> None:
+    _, problems = _load(tmp_path, GOOD.replace(old, new, 1))
+    assert [(p.line, p.message[: len(message)]) for p in problems] == [(3, message)]
+
+
+def test_trailing_empty_cells_are_no_extra_column(tmp_path: Path) -> None:
+    (records, _), problems = _load(tmp_path, GOOD.replace("continuous,yes\n", "continuous,yes,,\n", 1))
+    assert problems == [] and len(records) == 3
+
+
+def test_an_unclosed_quote_names_the_line_it_starts_on(tmp_path: Path) -> None:
+    _, problems = _load(tmp_path, GOOD.replace("P-101A,", 'P-101A,"', 1))
+    # the quote swallows the rest of the file; before, that was one cell and "missing values"
+    assert [(p.line, p.message[:35]) for p in problems] == [(3, "unclosed quote starting at line 3: ")]
+
+
+def test_a_cell_over_the_csv_field_limit_is_refused(tmp_path: Path) -> None:
+    _, problems = _load(tmp_path, GOOD.replace("ID fan", "x" * 200_000))
+    assert [p.line for p in problems] == [5]
+    assert "longer than 131072 characters" in problems[0].message
+
+
+def test_a_load_list_linked_out_of_the_project_is_named_as_a_link(tmp_path: Path) -> None:
+    outside = tmp_path / "outside.csv"
+    outside.write_text(GOOD)
+    proj = tmp_path / "proj"
+    (proj / "loads").mkdir(parents=True)
+    (proj / "loads" / "list.csv").symlink_to(outside)
+    problems: list[Problem] = []
+    assert load_records(DECL, "loads/list.csv", proj, "inputs/aux.toml", 7, "k", problems) is None
+    assert problems[0].message.startswith("'loads/list.csv' is a link to a file outside the project folder")
+
+
+def _workbook(tmp_path: Path, rows: list[list[object]], edit=None) -> None:
+    openpyxl = pytest.importorskip("openpyxl")
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    for r in rows:
+        ws.append(r)
+    if edit:
+        edit(ws)
+    wb.save(tmp_path / "loads.xlsx")
+
+
+def _load_xlsx(tmp_path: Path) -> list[Problem]:
+    problems: list[Problem] = []
+    load_records(DECL, "loads.xlsx", tmp_path, "inputs/aux.toml", 7, "k", problems)
+    return problems
+
+
+def test_merged_cells_are_refused_naming_the_range(tmp_path: Path) -> None:
+    rows = [["tag", "rated_power", "duty", "power_factor"], ["P-1", 250, "continuous", 0.9],
+            ["P-2", 250, "continuous", None], ["P-3", 250, "continuous", None]]
+    _workbook(tmp_path, rows, lambda ws: ws.merge_cells("D2:D4"))
+    problems = _load_xlsx(tmp_path)
+    # merged, P-2 and P-3 would silently take the default power factor 0.85
+    assert [(p.line, p.key, p.message[:18]) for p in problems] == [(2, "power_factor", "merged cells D2:D4")]
+
+
+def test_a_formula_with_no_saved_result_says_so(tmp_path: Path) -> None:
+    # openpyxl writes the formula without a result, as any script does
+    _workbook(tmp_path, [["tag", "rated_power", "duty"], ["P-1", "=100+150", "continuous"]])
+    problems = _load_xlsx(tmp_path)
+    assert [(p.line, p.key) for p in problems] == [(2, "rated_power")]
+    assert problems[0].message.startswith("cell B2 is a formula (=100+150) with no saved result: open the "
+                                          "workbook in a spreadsheet program and save it")
+
+
+def test_a_workbook_value_beyond_the_header_is_refused(tmp_path: Path) -> None:
+    _workbook(tmp_path, [["tag", "rated_power", "duty"], ["P-1", 250, "continuous", "oops"]])
+    problems = _load_xlsx(tmp_path)
+    assert [(p.line, p.message[:34]) for p in problems] == [(2, "a value in column D ('oops'), beyo")]

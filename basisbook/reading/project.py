@@ -18,6 +18,7 @@ from __future__ import annotations
 import datetime as _dt
 import difflib
 import math
+import os
 import re
 import tomllib
 from dataclasses import dataclass, field
@@ -32,7 +33,10 @@ from basisbook.reading.tomlpos import key_lines, line_of
 from basisbook.reading.units import UnitProblem, to_unit
 
 MAX_TOML_BYTES = 2 * 1024 * 1024
-INSTANCE_ID = re.compile(r"^[a-z][a-z0-9_-]{0,39}$")
+# ids are matched whole (fullmatch): "$" would also match before a final newline ("zz\n")
+INSTANCE_ID = re.compile(r"[a-z][a-z0-9_-]{0,39}")
+# a revision id names a folder (archive/rev-<id>): letters, digits, '-' and '.', not leading
+REVISION_ID = re.compile(r"[A-Za-z0-9][A-Za-z0-9.-]{0,19}")
 RESERVED_IDS = {"index", "site", "project", "results", "glossary", "source", "assets"}
 PURPOSES = (
     "issued for information",
@@ -161,8 +165,14 @@ def _read_toml(path: Path, rel: str, out: _Collector) -> tuple[dict[str, Any], d
         line = raw[: exc.start].count(b"\n") + 1
         out.add(rel, line, "", "the file is not UTF-8 text (save it as UTF-8)")
         return None
+    # a byte-order mark (some Windows editors write one) is accepted, as the CSV reader does
+    text = text.removeprefix("\ufeff")
     try:
         return _parse_toml(text)
+    except RecursionError:
+        out.add(rel, None, "", "arrays or inline tables are nested too deep to read "
+                "(an input file nests a few levels at most)")
+        return None
     except tomllib.TOMLDecodeError as exc:
         msg = str(exc)
         m = re.search(r"\(at line (\d+), column (\d+)\)", msg)
@@ -270,6 +280,56 @@ def _link(raw: Any, rel: str, line: int | None, key: str, out: _Collector) -> tu
     return a, b
 
 
+def _inside(root: Path, rel: str, out: _Collector) -> bool:
+    """False (and a problem) when ``root/rel`` is a link that resolves outside the project
+    folder: whatever it points at would be read, published and archived."""
+    path = root / rel
+    try:
+        real = path.resolve()
+    except (OSError, RuntimeError):  # a link loop
+        out.add(rel, None, "", "is a link that cannot be followed (a loop?); refused")
+        return False
+    if (path.exists() or path.is_symlink()) and not real.is_relative_to(root.resolve()):
+        what = "folder" if real.is_dir() else "file"
+        out.add(rel, None, "", f"is a link to a {what} outside the project folder ({real}); refused "
+                f"(copy the {what} into the project)")
+        return False
+    return True
+
+
+def _check_templates(root: Path, out: _Collector) -> None:
+    """Every entry of ``templates/`` (links followed) must stay inside the project: the
+    renderer reads overrides from there and copies ``templates/static/`` into the site."""
+    if not _inside(root, "templates", out) or not (root / "templates").is_dir():
+        return
+    for n, (folder, dirs, files) in enumerate(os.walk(root / "templates", followlinks=True)):
+        if n > 500:  # a few overrides are expected; a link loop must not walk forever
+            out.add("templates/", None, "", "holds more than 500 folders; expected a few template overrides")
+            return
+        base = Path(folder).relative_to(root).as_posix()
+        dirs[:] = [d for d in dirs if not (Path(folder, d).is_symlink() and not _inside(root, f"{base}/{d}", out))]
+        for f in files:
+            if Path(folder, f).is_symlink():
+                _inside(root, f"{base}/{f}", out)
+
+
+def _table(data: dict[str, Any], name: str, rel: str, lines: dict, out: _Collector) -> dict[str, Any]:
+    """``data[name]`` when it is a table ([name]); {} and a problem when it is something else."""
+    value = data.get(name, {})
+    if isinstance(value, dict):
+        return value
+    out.add(rel, line_of(lines, (name,)), name, f"expected a [{name}] table, got {_what(value)}")
+    return {}
+
+
+def _what(value: Any) -> str:
+    """A TOML value's kind and text for a message, shortened."""
+    kind = {bool: "true/false", int: "a number", float: "a number", str: "text", list: "an array"}
+    text = repr(value)
+    other = "a table" if isinstance(value, dict) else "a date or time"
+    return f"{kind.get(type(value), other)} {text if len(text) <= 40 else text[:37] + '...'}"
+
+
 def load(root: Path | str) -> Project:
     """Read and validate a project folder; raise ProjectError listing every problem."""
     root = Path(root)
@@ -283,8 +343,9 @@ def load(root: Path | str) -> Project:
     change_tolerance = 1e-6
     site: dict[str, InputValue] = {}
     rel = "project.toml"
-    parsed = _read_toml(root / rel, rel, out) if (root / rel).is_file() else None
-    if not (root / rel).is_file():
+    inside = _inside(root, rel, out)
+    parsed = _read_toml(root / rel, rel, out) if inside and (root / rel).is_file() else None
+    if inside and not (root / rel).is_file():
         out.add(rel, None, "", "missing: every project folder has a project.toml")
     if parsed:
         files.append(rel)
@@ -293,20 +354,21 @@ def load(root: Path | str) -> Project:
             if k not in ("project", "site"):
                 out.add(rel, line_of(lines, (k,)), k,
                         f"unknown table; expected [project] or [site]{_suggest(k, ['project', 'site'])}")
-        meta = data.get("project", {})
+        meta = _table(data, "project", rel, lines, out)
         for k in meta:
             if k not in PROJECT_KEYS:
                 out.add(rel, line_of(lines, ("project", k)), f"project.{k}",
                         f"unknown key{_suggest(k, PROJECT_KEYS)}")
         get = lambda k: _text(meta.get(k), rel, line_of(lines, ("project", k)), f"project.{k}", out)  # noqa: E731
         name, client, number, notes = get("name"), get("client"), get("number"), get("notes")
-        if not name:
-            out.add(rel, line_of(lines, ("project",)), "project.name", "missing: the project needs a name")
+        if not name.strip():
+            out.add(rel, line_of(lines, ("project", "name")) or line_of(lines, ("project",)), "project.name",
+                    "missing: the project needs a name" + (f", got {name!r}" if name else ""))
         if "change_tolerance" in meta:
             tol = _convert(CHANGE_TOLERANCE, meta["change_tolerance"], rel,
                            line_of(lines, ("project", "change_tolerance")), "project.change_tolerance", out)
             change_tolerance = tol if isinstance(tol, float) else 1e-6
-        sdata = data.get("site", {})
+        sdata = _table(data, "site", rel, lines, out)
         known = [f.name for f in SITE_FIELDS]
         for k in sdata:
             if k not in known:
@@ -323,6 +385,12 @@ def load(root: Path | str) -> Project:
             x = _convert(f, sdata[f.name], rel, line, f"site.{f.name}", out)
             if x is not None:
                 site[f.name] = InputValue(f.name, x, f.unit, Source(rel, line))
+        lo, hi = site.get("ambient_temperature_min"), site.get("ambient_temperature_max")
+        if lo and hi and lo.value > hi.value:  # type: ignore[operator]
+            where = lo if not lo.source.default else hi
+            out.add(rel, where.source.line or line_of(lines, ("site",)), f"site.{where.name}",
+                    f"the minimum ambient temperature ({lo.value:g} degC) is above the maximum "
+                    f"({hi.value:g} degC)")
 
     # --- revisions.toml ---------------------------------------------------
     revisions = _load_revisions(root, out, files)
@@ -331,13 +399,13 @@ def load(root: Path | str) -> Project:
     instances: list[Instance] = []
     seen: dict[str, str] = {}
     inputs_dir = root / "inputs"
-    paths = sorted(inputs_dir.glob("*.toml")) if inputs_dir.is_dir() else []
-    if not paths:
+    inputs_inside = _inside(root, "inputs", out)
+    paths = sorted(inputs_dir.glob("*.toml")) if inputs_inside and inputs_dir.is_dir() else []
+    if not paths and inputs_inside:
         out.add("inputs/", None, "", "no calc inputs: expected one or more inputs/*.toml files")
     for path in paths:
         rel = path.relative_to(root).as_posix()
-        if path.is_symlink() and not path.resolve().is_relative_to(root.resolve()):
-            out.add(rel, None, "", "is a link to a file outside the project folder; refused")
+        if not _inside(root, rel, out):
             continue
         parsed = _read_toml(path, rel, out)
         if not parsed:
@@ -363,6 +431,7 @@ def load(root: Path | str) -> Project:
                         if iv.value[0].source.file not in files:
                             files.append(iv.value[0].source.file)  # a records file: archived and shown
 
+    _check_templates(root, out)
     if out.problems:
         raise ProjectError(out.problems)
     return Project(root, name, client, number, notes, site, revisions, instances, files, change_tolerance)
@@ -370,6 +439,8 @@ def load(root: Path | str) -> Project:
 
 def _load_revisions(root: Path, out: _Collector, files: list[str]) -> list[Revision]:
     rel = "revisions.toml"
+    if not _inside(root, rel, out):
+        return []
     if not (root / rel).is_file():
         out.add(rel, None, "", "missing: every project folder has a revisions.toml with one [[revision]] at least")
         return []
@@ -383,13 +454,20 @@ def _load_revisions(root: Path, out: _Collector, files: list[str]) -> list[Revis
         if k != "revision":
             out.add(rel, line_of(lines, (k,)), k, f"unknown key; expected [[revision]] tables{_suggest(k, ['revision'])}")
     if not isinstance(revs, list) or not revs:
-        out.add(rel, None, "revision", "expected one [[revision]] table at least")
+        out.add(rel, line_of(lines, ("revision",)), "revision", "expected one [[revision]] table at least"
+                + (f", got {_what(revs)}" if revs else ""))
         return []
     result: list[Revision] = []
-    ids: set[str] = set()
+    ids: dict[str, str] = {}  # case-folded id -> id as written
+    previous: tuple[str, _dt.date] | None = None  # (id, date) of the revision before
     for i, r in enumerate(revs):
         base = ("revision", i)
         line = line_of(lines, base)
+        if not isinstance(r, dict):
+            # "revision = [1, 2]": an array of values, not of tables
+            out.add(rel, line_of(lines, ("revision",)), "revision",
+                    f"expected [[revision]] tables, got {_what(r)} in the array")
+            return []
         for k in r:
             if k not in REVISION_KEYS:
                 out.add(rel, line_of(lines, base + (k,)), f"revision.{k}", f"unknown key{_suggest(k, REVISION_KEYS)}")
@@ -401,7 +479,11 @@ def _load_revisions(root: Path, out: _Collector, files: list[str]) -> list[Revis
                 if isinstance(v, _dt.date) and not isinstance(v, _dt.datetime):
                     v = v.isoformat()
                 elif isinstance(v, str) and re.fullmatch(r"\d{4}-\d{2}-\d{2}", v):
-                    pass
+                    try:
+                        _dt.date.fromisoformat(v)
+                    except ValueError:
+                        out.add(rel, kl, "revision.date", f"expected a date like 2026-11-30, got {v!r}, which is not a day of the calendar")
+                        v = ""
                 else:
                     out.add(rel, kl if v is not None else line, "revision.date",
                             f"expected a date like 2026-11-30, got {v!r}")
@@ -419,9 +501,24 @@ def _load_revisions(root: Path, out: _Collector, files: list[str]) -> list[Revis
             out.add(rel, line_of(lines, base + ("purpose",)), "revision.purpose",
                     f"expected one of: {', '.join(PURPOSES)}; got {vals['purpose']!r}"
                     + _suggest(vals["purpose"], PURPOSES))
-        if vals["id"] in ids:
-            out.add(rel, line_of(lines, base + ("id",)), "revision.id", f"revision {vals['id']!r} is listed twice")
-        ids.add(vals["id"])
+        rid = vals["id"]
+        idl = line_of(lines, base + ("id",)) or line
+        if rid and not REVISION_ID.fullmatch(rid):
+            # the id names the archive folder: "A/../../X" would write outside the project
+            out.add(rel, idl, "revision.id", "expected a revision id: letters, digits, '-' or '.', not "
+                    f"starting with '.', at most 20 characters (like 'A', 'B.1', 'P-02'); got {rid!r}")
+        elif rid.casefold() in ids:
+            first = ids[rid.casefold()]
+            out.add(rel, idl, "revision.id", f"revision {rid!r} is listed twice" + (f" (as {first!r}; ids that "
+                    "differ only in case would share one archive folder on a case-insensitive disk)" if first != rid else ""))
+        ids.setdefault(rid.casefold(), rid)
+        if vals["date"]:
+            day = _dt.date.fromisoformat(vals["date"])
+            if previous and day < previous[1]:
+                out.add(rel, line_of(lines, base + ("date",)) or line, "revision.date",
+                        f"revision {rid!r} is dated {vals['date']}, before revision {previous[0]!r} "
+                        f"({previous[1].isoformat()}); list revisions oldest first")
+            previous = (rid, day)
         result.append(Revision(line=line, **vals))
     return result
 
@@ -437,7 +534,7 @@ def _load_instance(block: Any, idx: int, rel: str, lines: dict, out: _Collector,
         if k not in INSTANCE_KEYS:
             out.add(rel, line_of(lines, base + (k,)), k, f"unknown key{_suggest(k, INSTANCE_KEYS)}")
     iid = block.get("id")
-    if not isinstance(iid, str) or not INSTANCE_ID.match(iid) or iid in RESERVED_IDS:
+    if not isinstance(iid, str) or not INSTANCE_ID.fullmatch(iid) or iid in RESERVED_IDS:
         out.add(rel, line_of(lines, base + ("id",)) or line, "id",
                 "expected an instance id: lower-case letters, digits, '-' or '_', starting with a "
                 f"letter, at most 40 characters, not one of {sorted(RESERVED_IDS)}; got {iid!r}")

@@ -32,34 +32,61 @@ def _split(dotted: str) -> tuple[str, ...]:
     return tuple(out)
 
 
-def _depth_change(value: str) -> tuple[int, str | None]:
-    """Bracket depth change over a value fragment, and an open multi-line string."""
+def _close_run(value: str, i: int, quote: str) -> int | None:
+    """At ``value[i]`` inside a multi-line string: the index after its closing delimiter if
+    one starts here, else None.  A run of 3 to 5 quotes closes the string at the run's end
+    (TOML lets one or two quotes of the content touch the delimiter)."""
+    if not value.startswith(quote * 3, i):
+        return None
+    j = i + 3
+    while j < len(value) and value[j] == quote and j - i < 5:
+        j += 1
+    return j
+
+
+def _scan(value: str, open_string: str | None) -> tuple[int, str | None]:
+    """Bracket depth change over one line's value fragment, and the multi-line string
+    (three double or three single quotes) still open at its end; ``open_string`` is the one
+    open at the fragment's start.  Escapes count in basic strings only: an escaped quote
+    before two more never closes a multi-line basic string, and a literal string has no
+    escapes at all."""
     depth = 0
     i = 0
-    while i < len(value):
-        c = value[i]
-        if value.startswith('"""', i) or value.startswith("'''", i):
-            q = value[i : i + 3]
-            end = value.find(q, i + 3)
-            if end < 0:
-                return depth, q
-            i = end + 3
+    n = len(value)
+    while i < n:
+        if open_string:
+            q = open_string[0]
+            if q == '"' and value[i] == "\\":
+                i += 2  # an escaped character, or a line-ending backslash
+                continue
+            j = _close_run(value, i, q)
+            if j is None:
+                i += 1
+                continue
+            open_string = None
+            i = j
             continue
-        if c == '"':
+        c = value[i]
+        if c in "\"'" and value.startswith(c * 3, i):
+            open_string = c * 3
+            i += 3
+        elif c == '"':
             i += 1
-            while i < len(value) and value[i] != '"':
+            while i < n and value[i] != '"':
                 i += 2 if value[i] == "\\" else 1
+            i += 1
         elif c == "'":
             end = value.find("'", i + 1)
-            i = len(value) if end < 0 else end
+            i = n if end < 0 else end + 1
         elif c == "#":
             break
-        elif c in "[{":
-            depth += 1
-        elif c in "]}":
-            depth -= 1
-        i += 1
-    return depth, None
+        else:
+            if c in "[{":
+                depth += 1
+            elif c in "]}":
+                depth -= 1
+            i += 1
+    return depth, open_string
 
 
 def _inline_keys(value: str) -> list[tuple[str, ...]]:
@@ -80,16 +107,11 @@ def key_lines(text: str) -> dict[Path, int]:
     depth = 0
     open_string: str | None = None
     for n, raw in enumerate(text.splitlines(), start=1):
-        if open_string:
-            if open_string in raw:
-                # the rest of the closing line belongs to the same value
-                rest = raw.split(open_string, 1)[1]
-                open_string = None
-                d, open_string = _depth_change(rest)
-                depth += d
-            continue
-        if depth > 0:
-            d, open_string = _depth_change(raw)
+        if n == 1:
+            raw = raw.removeprefix("\ufeff")  # a byte-order mark is accepted by the loader
+        if open_string or depth > 0:
+            # inside a value that spans lines: no keys or headers here
+            d, open_string = _scan(raw, open_string)
             depth += d
             continue
         m = _ARRAY.match(raw)
@@ -99,6 +121,7 @@ def key_lines(text: str) -> dict[Path, int]:
             idx = counters.get(base, -1) + 1
             counters[base] = idx
             table = base + (idx,)
+            lines.setdefault(base, n)  # the array itself: its first table's line
             lines.setdefault(table, n)
             continue
         m = _TABLE.match(raw)
@@ -112,7 +135,7 @@ def key_lines(text: str) -> dict[Path, int]:
             lines.setdefault(path, n)
             for sub in _inline_keys(m.group(2)):
                 lines.setdefault(path + sub, n)
-            d, open_string = _depth_change(m.group(2))
+            d, open_string = _scan(m.group(2), None)
             depth += d
     return lines
 

@@ -13,7 +13,7 @@ from sitecheck import check_links
 from basisbook.commands.build import snapshot_site
 from basisbook.commands.cli import main
 from basisbook.revisions.archive import archive
-from basisbook.revisions.snapshot import MANIFEST
+from basisbook.revisions.snapshot import MANIFEST, SEAL_MEMBER
 from basisbook.revisions.verify import verify
 
 GEN = "inputs/generators.toml"
@@ -50,7 +50,8 @@ def test_archive_holds_site_inputs_results_and_manifest(archived: Path) -> None:
     assert (snap / "site" / "index.html").is_file()
     assert (snap / "project" / GEN).read_bytes() == (archived / GEN).read_bytes()
     assert json.loads((snap / "results.json").read_text())["revision"]["id"] == "A"
-    assert set(manifest["files"]) == {k for k in _tree(snap) if k != MANIFEST}
+    assert set(manifest["files"]) == {k for k in _tree(snap) if k not in (MANIFEST, SEAL_MEMBER)}
+    assert manifest["file_count"] == len(manifest["files"]) and manifest["format"] == "basisbook snapshot 2"
     for lib in ("CoolProp", "numpy", "matplotlib", "pint", "python"):
         assert manifest["libraries"][lib]
     assert manifest["tool"]["name"] == "basisbook"

@@ -144,6 +144,11 @@ def current_results(project_root: Path) -> dict[str, Any]:
 
 def results_for(project_root: Path, rev_id: str) -> dict[str, Any]:
     """An archived revision's results, or the current inputs' if ``rev_id`` is current."""
+    if not project_mod.REVISION_ID.fullmatch(rev_id):
+        # a revision id names a folder: it is checked before it is used as one
+        raise ProjectError([Problem("revisions.toml", None, "revision",
+                                    f"{rev_id!r} is not a revision id (letters, digits, '-' and '.', "
+                                    "not starting with '.', at most 20 characters)")])
     snap = snapshot.load_results(project_root, rev_id)
     if snap is not None:
         return snap

@@ -14,15 +14,26 @@ from __future__ import annotations
 
 import os
 import shutil
+import sys
 import tempfile
+import time
+from collections.abc import Iterator
+from contextlib import contextmanager
 from dataclasses import dataclass
 from pathlib import Path
 
-from basisbook.contract.errors import Problem, ProjectError
+from basisbook.contract.errors import EnvironmentFailure, Problem, ProjectError
 from basisbook.reading import project as project_mod
 from basisbook.reading.project import Project
 from basisbook.rendering.figure_worker import FigurePool, FigureWorker
-from basisbook.rendering.site import SITE_MARKER, RenderCache, render_files, write_files
+from basisbook.rendering.site import (
+    INCOMPLETE_MARKER,
+    SITE_MARKER,
+    RenderCache,
+    render_files,
+    site_listing,
+    write_files,
+)
 from basisbook.revisions import snapshot
 from basisbook.revisions.diff import previous_comparison
 from basisbook.running import engine
@@ -40,40 +51,128 @@ def check(root: Path, run_calcs: bool = True) -> list:
     return engine.run(proj)
 
 
+def _refuse(out: Path, message: str) -> ProjectError:
+    return ProjectError([Problem(str(out), None, "--out", message)])
+
+
 def _guard_out(root: Path, out: Path) -> None:
+    """Refuse an output folder the build must not replace (nothing is written first).
+
+    The build replaces the whole folder, so it must be one of its own: never the project
+    or a folder inside it (its inputs or its template overrides would change the next
+    build) other than the project's top-level ``site/``, never a folder inside an issued
+    revision's snapshot, and never a folder holding files an earlier build did not write.
+    """
+    project = Path(root).resolve()
     if out.exists() and not out.is_dir():
-        raise ProjectError([Problem(str(out), None, "--out", "is a file, not a folder")])
-    if out.exists() and any(out.iterdir()) and not (out / SITE_MARKER).exists():
-        raise ProjectError([Problem(str(out), None, "--out",
-                                    "exists and is not a basisbook site; refusing to replace it "
-                                    "(choose an empty or new folder)")])
-    if Path(root).resolve() == out or Path(root).resolve().is_relative_to(out):
-        raise ProjectError([Problem(str(out), None, "--out", "would replace the project folder itself")])
+        raise _refuse(out, "is a file, not a folder")
+    if project == out or project.is_relative_to(out):
+        raise _refuse(out, "would replace the project folder itself")
+    if out.is_relative_to(project) and out != project / "site":
+        raise _refuse(out, f"is inside the project folder {project}; build into the project's own "
+                      "site/ folder or a folder outside the project")
+    for folder in (out, *out.parents):
+        if (folder / "manifest.json").is_file() or (folder.parent.name == "archive"
+                                                    and folder.name.startswith("rev-")):
+            raise _refuse(out, f"is inside the archived snapshot {folder}; an issued revision is "
+                          "never overwritten")
+    if not out.exists() or not any(out.iterdir()):
+        return
+    marker = out / SITE_MARKER
+    if not marker.is_file():
+        raise _refuse(out, "exists and is not a basisbook site; refusing to replace it "
+                      "(choose an empty or new folder)")
+    listed = site_listing(marker.read_text(encoding="utf-8", errors="replace"))
+    if listed is None:
+        return  # a site from before the marker listed its files: it was all ours
+    foreign = [rel for rel in _present(out) if rel not in listed and not _ours_in_passing(rel)]
+    if foreign:
+        more = f" and {len(foreign) - 5} more" if len(foreign) > 5 else ""
+        raise _refuse(out, f"holds files no build wrote ({', '.join(foreign[:5])}{more}); refusing to "
+                      "replace them: move them out, or build into an empty or new folder")
+
+
+def _present(out: Path) -> list[str]:
+    return sorted(p.relative_to(out).as_posix() for p in out.rglob("*") if p.is_file() or p.is_symlink())
+
+
+def _ours_in_passing(rel: str) -> bool:
+    """Files a build writes for a moment: a half-written file of an interrupted sync and
+    the mark of a sync in progress (``serve``); the next build replaces or removes them."""
+    name = rel.rsplit("/", 1)[-1]
+    return (rel in (INCOMPLETE_MARKER, ".handbook-print.html")  # the latter: `basisbook pdf`'s copy
+            or (name.startswith(".") and name.endswith(".part")))
+
+
+@contextmanager
+def output_lock(out: Path, wait_s: float = 120.0) -> Iterator[None]:
+    """Hold the output folder for one build: a second build into the same folder waits for
+    the first (saying so), and gives up after ``wait_s`` with a message, never racing it.
+
+    The lock is an ``fcntl`` lock on the folder's parent directory: the folder itself is
+    swapped out by the build, and a lock file would be one more file left beside the site.
+    (Builds into sibling folders take turns too; they are short.)"""
+    import fcntl
+
+    out.parent.mkdir(parents=True, exist_ok=True)
+    fd = os.open(out.parent, os.O_RDONLY | os.O_DIRECTORY)
+    try:
+        try:
+            fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
+        except BlockingIOError:
+            print(f"another basisbook build is writing beside {out}; waiting for it to finish",
+                  file=sys.stderr, flush=True)
+            deadline = time.monotonic() + wait_s
+            while True:
+                try:
+                    fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
+                    break
+                except BlockingIOError:
+                    if time.monotonic() > deadline:
+                        raise EnvironmentFailure(f"another basisbook build has held {out.parent} for over "
+                                                 f"{wait_s:.0f} s; try again when it is done") from None
+                    time.sleep(0.05)
+        try:
+            yield
+        finally:
+            fcntl.flock(fd, fcntl.LOCK_UN)
+    finally:
+        os.close(fd)
+
+
+def _environment(out: Path, exc: OSError) -> EnvironmentFailure:
+    where = exc.filename or out
+    return EnvironmentFailure(f"could not write the site into {out}: {exc.strerror or exc} ({where}); "
+                              "the previous site is unchanged")
 
 
 def build(root: Path, out: Path) -> tuple[int, Path]:
     """Clean build of ``root`` into ``out``; return (page count, out)."""
     out = Path(out).resolve()
-    recover(out)
-    _guard_out(root, out)
-    # forked before the project loads, so the helper's matplotlib import overlaps it
-    cache = RenderCache(FigureWorker.start())
-    try:
-        proj = project_mod.load(root)
-        cache.start()
-        runs = engine.run(proj, on_run=cache.request_run)  # figures go to the helper as they come
-        files = site_files(proj, runs, cache)
-    finally:
-        cache.close()
-    out.parent.mkdir(parents=True, exist_ok=True)
-    tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.new-", dir=out.parent))
-    try:
-        write_files(files, tmp)
-        os.chmod(tmp, 0o755)
-        _swap(tmp, out)
-    except BaseException:
-        shutil.rmtree(tmp, ignore_errors=True)
-        raise
+    _guard_out(root, out)  # before anything is written, even the lock
+    with output_lock(out):
+        recover(out)  # under the lock: another build's temporary folder is never touched
+        _guard_out(root, out)
+        # forked before the project loads, so the helper's matplotlib import overlaps it
+        cache = RenderCache(FigureWorker.start())
+        try:
+            proj = project_mod.load(root)
+            cache.start()
+            runs = engine.run(proj, on_run=cache.request_run)  # figures go to the helper as they come
+            files = site_files(proj, runs, cache)
+        finally:
+            cache.close()
+        tmp: Path | None = None
+        try:
+            tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.new-", dir=out.parent))
+            write_files(files, tmp)
+            os.chmod(tmp, 0o755)
+            _swap(tmp, out)
+        except OSError as exc:
+            raise _environment(out, exc) from None
+        finally:
+            if tmp is not None and tmp.exists():
+                shutil.rmtree(tmp, ignore_errors=True)
     return sum(1 for w in files if w.endswith(".html")), out
 
 
@@ -214,7 +313,8 @@ class Builder:
 
     def build(self) -> BuildStats:
         fp = self.fingerprint()
-        if fp == self._fingerprint and self._last is not None and (self.out / SITE_MARKER).is_file():
+        if (fp == self._fingerprint and self._last is not None and (self.out / SITE_MARKER).is_file()
+                and not (self.out / INCOMPLETE_MARKER).exists()):
             # nothing that shapes the site changed: nothing to run, draw or write
             return BuildStats(self._last.pages, [], 0, self._last.calcs_run + self._last.calcs_reused, 0, 0, 0)
         stats = self._build()
@@ -227,17 +327,28 @@ class Builder:
         before = set(self.compute_cache)
         drawn = self.render_cache.figures_drawn
         self.render_cache.start()
-        try:
-            runs = engine.run(proj, self.compute_cache, on_run=self.render_cache.request_run)
-            files = site_files(proj, runs, self.render_cache, complete=False)
-            # the pages go out while the helpers finish the figures; then the rest
-            early, _ = sync(files, self.out, self._known, remove=False)
-            self.render_cache.complete(files)
-        except BaseException:
-            self.render_cache.abort()
-            raise
+        with output_lock(self.out):
+            _guard_out(self.root, self.out)
+            try:
+                runs = engine.run(proj, self.compute_cache, on_run=self.render_cache.request_run)
+                files = site_files(proj, runs, self.render_cache, complete=False)
+                # the live folder is written file by file: marked incomplete until the last
+                # sync has removed what is gone (it removes the mark too, being no site file)
+                self.out.mkdir(parents=True, exist_ok=True)
+                (self.out / INCOMPLETE_MARKER).write_bytes(b"a rebuild is being written into this folder\n")
+                # the pages go out while the helpers finish the figures; then the rest
+                early, _ = sync(files, self.out, self._known, remove=False)
+                self.render_cache.complete(files)
+                written, removed = sync(files, self.out, self._known)
+            except OSError as exc:
+                self.render_cache.abort()
+                self._known.clear()  # what is on disk is no longer known
+                raise _environment(self.out, exc) from None
+            except BaseException:
+                self.render_cache.abort()
+                self._known.clear()
+                raise
         rerun = [r.id for r in runs if r.cache_key not in before]
-        written, removed = sync(files, self.out, self._known)
         written += early
         return BuildStats(sum(1 for f in files if f.endswith(".html")), rerun, len(rerun),
                           len(runs) - len(rerun), self.render_cache.figures_drawn - drawn, written, removed)
@@ -287,9 +398,13 @@ def sync(files: dict[str, bytes], out: Path,
         return written, removed
     for path in sorted(out.rglob("*"), reverse=True):
         rel = path.relative_to(out).as_posix()
-        if path.is_file() and rel not in files:
+        if rel == INCOMPLETE_MARKER:
+            continue
+        if (path.is_file() or path.is_symlink()) and rel not in files:
             path.unlink()
             removed += 1
         elif path.is_dir() and not any(path.iterdir()):
             path.rmdir()
+    # last: the folder now holds exactly the site, so it is no longer marked incomplete
+    (out / INCOMPLETE_MARKER).unlink(missing_ok=True)
     return written, removed

@@ -19,7 +19,7 @@ from pathlib import Path
 from typing import Any
 
 from basisbook.commands.build import Builder
-from basisbook.contract.errors import ProjectError
+from basisbook.contract.errors import EnvironmentFailure, ProjectError
 
 STATE_PATH = "/__basisbook/state"
 SCRIPT_PATH = "/__basisbook/live.js"
@@ -82,7 +82,10 @@ class Handler(SimpleHTTPRequestHandler):
         pass  # the terminal shows builds and problems, not every request
 
     def do_GET(self) -> None:  # noqa: N802 - stdlib name
-        path = self.path.split("?", 1)[0]
+        path = self.path.split("?", 1)[0].split("#", 1)[0]
+        if not _acceptable(path):
+            self.send_error(400, "bad request path")
+            return
         if path == STATE_PATH:
             self._send(json.dumps(self.state.snapshot()).encode(), "application/json")
             return
@@ -101,6 +104,17 @@ class Handler(SimpleHTTPRequestHandler):
                 return
         super().do_GET()
 
+    def do_HEAD(self) -> None:  # noqa: N802 - stdlib name
+        if not _acceptable(self.path.split("?", 1)[0]):
+            self.send_error(400, "bad request path")
+            return
+        super().do_HEAD()
+
+    def list_directory(self, path: Any) -> None:
+        # a folder without index.html is not a page of the handbook: no listings
+        self.send_error(404, "not found")
+        return None
+
     def _send(self, body: bytes, ctype: str) -> None:
         self.send_response(200)
         self.send_header("Content-Type", ctype)
@@ -108,6 +122,15 @@ class Handler(SimpleHTTPRequestHandler):
         self.send_header("Cache-Control", "no-store")
         self.end_headers()
         self.wfile.write(body)
+
+
+def _acceptable(path: str) -> bool:
+    """A request path the server will look up: absolute, and no NUL or other control
+    character once percent-decoded (the standard handler raises on an embedded NUL)."""
+    from urllib.parse import unquote
+
+    decoded = unquote(path)
+    return path.startswith("/") and not any(ord(ch) < 32 or ch == "\x7f" for ch in decoded)
 
 
 def _problems_text(exc: ProjectError) -> str:
@@ -123,6 +146,16 @@ def rebuild(builder: Builder, state: LiveState, log: Any = print) -> bool:
         with state.lock:
             state.error = text
         log(f"{len(exc.problems)} problem(s); the last good site stays up:\n{text}")
+        return False
+    except Exception as exc:  # noqa: BLE001 - any failure must leave the watcher running
+        # not an input problem (a full disk, or a bug): shown the same way, and the next
+        # save builds again; the traceback goes to the terminal for a bug report
+        import traceback
+
+        text = f"the rebuild failed: {type(exc).__name__}: {exc}"
+        with state.lock:
+            state.error = text
+        log(f"{text}; the last good site stays up\n{traceback.format_exc()}")
         return False
     with state.lock:
         state.error = ""
@@ -163,7 +196,12 @@ def serve(root: Path, out: Path, port: int = 8765) -> int:
     else:
         print(f"built {stats.pages} pages into {builder.out}")
     handler = partial(type("BoundHandler", (Handler,), {"state": state}), directory=str(builder.out))
-    httpd = ThreadingHTTPServer(("127.0.0.1", port), handler)
+    try:
+        httpd = ThreadingHTTPServer(("127.0.0.1", port), handler)
+    except OSError as exc:
+        builder.close()
+        raise EnvironmentFailure(f"cannot listen on 127.0.0.1:{port}: {exc.strerror or exc} "
+                                 "(choose another with --port; --port 0 picks a free one)") from None
     stop = threading.Event()
     watcher = threading.Thread(target=watch_loop, args=(builder, state, stop), daemon=True)
     watcher.start()

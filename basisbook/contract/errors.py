@@ -38,3 +38,8 @@ class ProjectError(Exception):
     def __init__(self, problems: list[Problem]):
         self.problems = problems
         super().__init__("\n".join(str(p) for p in problems))
+
+
+class EnvironmentFailure(Exception):
+    """The machine, not the input, stopped the command: a full disk, a read-only folder, a
+    port in use, another build holding the output folder (exit code 1, one line)."""

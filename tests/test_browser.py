@@ -206,6 +206,43 @@ def test_search_box_finds_symbols_names_and_follows_offline(built_site: Path, pa
     assert_quiet(traffic)
 
 
+@pytest.mark.parametrize(("query", "first_symbol"), [
+    ('Ik"', 'I"k'), ("Ik''", 'I"k'), ("I″k", 'I"k'), ("I''k", 'I"k'),  # the subtransient current
+    ("x_d", "xd"), ("xd", "xd"), ("x''d", 'x"d'),
+    ("η", "eta"), ("eta", "eta"), ("SrT", "SrT"), ("cos φ", "cosphi"),
+])
+def test_search_ranks_the_symbol_first_in_the_forms_engineers_type(built_site: Path, page: tuple[Any, Traffic],
+                                                                   query: str, first_symbol: str) -> None:
+    import json
+
+    text = (built_site / "assets" / "search-index.js").read_text(encoding="utf-8")
+    entries = json.loads(text.split("window.BASISBOOK_SEARCH = ", 1)[1].split(";\n", 1)[0])
+    by_href = {e["h"]: e for e in entries}
+    pg, traffic = page
+    pg.goto((built_site / "index.html").as_uri())
+    pg.fill("#bb-search", query)
+    first = pg.query_selector("#bb-search-results li")
+    assert first is not None
+    href = (first.query_selector("a").get_attribute("href") or "")
+    entry = by_href[href]
+    assert entry["y"].startswith(first_symbol), (query, entry)
+    detail = first.text_content() or ""
+    # each hit shows its value with unit and the page it is on, and links to the step
+    assert " = " in detail and entry["p"] in detail, detail
+    if entry["k"] == "result":
+        assert "#step-" in href or "#out-" in href
+    assert_quiet(traffic)
+
+
+def test_search_finds_a_primed_symbol_typed_without_its_primes(built_site: Path, page: tuple[Any, Traffic]) -> None:
+    pg, _ = page
+    pg.goto((built_site / "index.html").as_uri())
+    pg.fill("#bb-search", "Ik")
+    labels = [a.text_content() for a in pg.query_selector_all("#bb-search-results a")]
+    assert any(label.endswith((".hv_fault_current", ".generator_partial_current", ".network_partial_current"))
+               for label in labels[:10]), labels[:10]
+
+
 def test_search_results_keep_hostile_text_inert(demo_copy: Path, tmp_path: Path, page: tuple[Any, Traffic]) -> None:
     from basisbook.commands.build import build
 
@@ -256,7 +293,10 @@ def test_pdf_first_page_has_nothing_cut_off(demo_copy: Path, tmp_path: Path) -> 
     from basisbook.commands.cli import main
 
     pdf = tmp_path / "handbook.pdf"
-    assert main(["pdf", str(demo_copy), "--out", str(tmp_path / "site"), "--pdf", str(pdf)]) == 0
+    # US Letter by option (A4, the default, is what the built page names)
+    assert main(["pdf", str(demo_copy), "--out", str(tmp_path / "site"), "--pdf", str(pdf), "--paper", "letter"]) == 0
+    assert "@page { size: A4;" in (tmp_path / "site" / "handbook.html").read_text(encoding="utf-8")
+    assert not (tmp_path / "site" / ".handbook-print.html").exists()  # the print copy is gone
     assert pdf.read_bytes().startswith(b"%PDF")
     subprocess.run(["pdftoppm", "-r", "50", "-png", "-f", "1", "-l", "1", str(pdf), str(tmp_path / "p")], check=True)
     png = next(tmp_path.glob("p*.png"))
@@ -271,6 +311,45 @@ def test_pdf_first_page_has_nothing_cut_off(demo_copy: Path, tmp_path: Path) -> 
         assert e.getextrema()[0] > 240, "content touches the paper edge"
     # and the page is not blank: the cover has text
     assert img.getextrema()[0] < 100
+
+    # every page carries the document number, the revision and "page k of n"; the contents
+    # list gives each section's page, and that page really holds the section
+    from pypdf import PdfReader
+
+    from basisbook.commands.pdf import section_pages
+
+    reader = PdfReader(str(pdf))
+    n = len(reader.pages)
+    assert n > 20
+    box = reader.pages[0].mediabox
+    assert (round(float(box.width)), round(float(box.height))) == (612, 792)  # 8.5 in x 11 in at 72 pt/in
+    import unicodedata
+
+    # NFKC: the PDF's text uses ligatures (ﬁ) where the page has "fi"
+    texts = [unicodedata.normalize("NFKC", pg.extract_text()) for pg in reader.pages]
+    for k, text in enumerate(texts, start=1):
+        assert f"page {k} of {n}" in text, (k, text[-200:])
+        if k > 1:
+            assert "OBR-2026-041" in text and "Rev B" in text, (k, text[:200])
+    html = (tmp_path / "site" / "handbook.html").read_text(encoding="utf-8")
+    anchors = re.findall(r'<span class="toc-page" data-anchor="([^"]+)">', html)
+    landed = section_pages(pdf, anchors)
+    assert set(landed) == set(anchors)
+    import html as html_mod
+
+    # the contents as laid out on paper (poppler's pdftotext keeps a title and its number on a line)
+    laid = subprocess.run(["pdftotext", "-layout", "-f", "1", "-l", "3", str(pdf), "-"], check=True,
+                          capture_output=True, text=True).stdout
+    laid = " ".join(unicodedata.normalize("NFKC", laid).split())
+    entries = re.findall(r'<li><span class="secno">([^<]+)</span><a href="#([^"]+)">([^<]+)</a>'
+                         r'<span class="toc-page"', html)
+    assert len(entries) == len(anchors)
+    for number, anchor, title in entries:
+        title = html_mod.unescape(title)
+        assert f"{number} {title} {landed[anchor]}" in laid, (number, title, landed[anchor])
+        heading = "Ostervale" if anchor.startswith("index") else title.split()[0]  # the summary's is the project
+        assert heading in texts[landed[anchor] - 1]  # the section is on that page
+    assert list(landed.values()) == sorted(landed.values())  # sections in reading order
 
 
 # --- the serve loop -------------------------------------------------------------------
@@ -348,3 +427,38 @@ def test_serve_reloads_the_page_after_an_edit_and_shows_broken_input(browser: An
     # the live script is added only while serving, never written into the site
     assert all("__basisbook" not in p.read_text(encoding="utf-8") for p in site.rglob("*.html"))
     context.close()
+
+
+def test_an_unbroken_300_character_title_stays_in_its_column(demo_copy: Path, tmp_path: Path,
+                                                             page: tuple[Any, Traffic]) -> None:
+    from basisbook.commands.build import build
+
+    long_word = "Generator" + "X" * 291
+    gen = demo_copy / "inputs" / "generators.toml"
+    text = gen.read_text(encoding="utf-8")
+    first = re.search(r'^title = "([^"]*)"', text, flags=re.M)
+    assert first is not None
+    gen.write_text(text.replace(first.group(0), f'title = "{long_word}"', 1), encoding="utf-8")
+    out = tmp_path / "site"
+    build(demo_copy, out)
+    pg, _ = page
+    for name in ("index.html", "stg1.html"):
+        pg.goto((out / name).as_uri())
+        spill = pg.evaluate("""() => {
+            const width = document.documentElement.clientWidth;
+            const bad = [];
+            for (const el of document.querySelectorAll('body *')) {
+                const r = el.getBoundingClientRect();
+                if (r.width > 0 && r.right > width + 1 && getComputedStyle(el).position !== 'fixed') {
+                    bad.push(el.tagName + '.' + el.className + ' right=' + Math.round(r.right));
+                }
+            }
+            return {scroll: document.documentElement.scrollWidth, width, bad: bad.slice(0, 5)};
+        }""")
+        assert spill["scroll"] <= spill["width"], f"{name}: the page scrolls sideways: {spill}"
+        main_box = pg.evaluate("() => { const r = document.querySelector('main').getBoundingClientRect();"
+                               " return [r.left, r.right]; }")
+        h1 = pg.evaluate("() => { const r = document.querySelector('main h1').getBoundingClientRect();"
+                         " return [r.left, r.right]; }")
+        assert main_box[0] - 1 <= h1[0] and h1[1] <= main_box[1] + 1, (name, main_box, h1)
+    pg.screenshot(path=str(ARTIFACTS / "long-title.png"))

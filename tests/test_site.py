@@ -539,3 +539,16 @@ def test_a_project_can_override_a_builtin_template(demo_copy: Path, tmp_path: Pa
     assert tree.find_all("nav", "sidebar"), "the override lost the built-in base layout"
     assert "Summary of key results" not in index, "the built-in index was rendered instead"
     assert marker not in (out / "stg1.html").read_text(encoding="utf-8"), "override leaked to calc pages"
+
+
+def test_no_raw_latex_on_any_page(built_site: Path) -> None:
+    # a LaTeX command the converter did not understand is printed as it stands (\arg, \,):
+    # no MathML token of any page may hold a backslash
+    import re
+
+    token = re.compile(r"<(mi|mo|mn|mtext|ms)\b[^>]*>([^<]*)</\1>")
+    raw = sorted({f"{p.name}: {m.group(2)}" for p in built_site.rglob("*.html")
+                  if "archive" not in p.relative_to(built_site).parts
+                  for m in token.finditer(p.read_text(encoding="utf-8")) if "\\" in m.group(2)})
+    assert not raw, raw[:10]
+    assert token.search((built_site / "stg1.html").read_text(encoding="utf-8"))  # the scan sees tokens

@@ -8,9 +8,10 @@ from typing import Any
 from markupsafe import Markup
 
 from basisbook.contract.spec import SingleLine, SourceRow
-from basisbook.rendering.common import cite, math_markup, source_view, table_cell
+from basisbook.rendering.common import cite, header_markup, math_markup, source_view, table_rows
 from basisbook.rendering.mathfmt import (
     format_value,
+    input_text,
     number_text,
     quantity_latex,
     quantity_mathml,
@@ -21,6 +22,13 @@ from basisbook.rendering.mathfmt import (
 from basisbook.rendering.source_pages import source_page
 from basisbook.rendering.templating import markdown
 from basisbook.running.engine import CalcRun
+
+# relations as typeset (a check's value stands on the left, its limit on the right)
+RELATIONS = {"<=": "≤", ">=": "≥", "<": "<", ">": ">", "==": "=", "!=": "≠"}
+
+# a table longer than this is summarised on its page and in the one-document view (the
+# full rows stay in its CSV): a 100 000-row load list would otherwise make pages of tens of MB
+TABLE_ROWS_SHOWN = 1000
 
 
 def change_mark(marks: dict[tuple[str, str], Any], kind: str, name: str, since: str) -> str:
@@ -66,10 +74,10 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Any = None) -> 
         if decl.kind == "table":
             table = {"columns": [c.label + (f" ({unit_text(c.unit)})" if unit_text(c.unit) else "")
                                  for c in decl.columns],
-                     "rows": [[number_text(x) for x in row] for row in iv.value]}  # type: ignore[union-attr]
+                     "rows": [[input_text(x) for x in row] for row in iv.value]}  # type: ignore[union-attr]
         inputs.append({
             "name": decl.name, "symbol": math_markup(decl.symbol), "meaning": decl.meaning,
-            "value": "" if table else number_text(iv.value),  # type: ignore[arg-type]
+            "value": "" if table else input_text(iv.value),  # type: ignore[arg-type]
             "table": table,
             "unit": "" if table else unit_text(decl.unit),
             "allowed": decl.allowed.text() if decl.kind == "number" else "",
@@ -109,7 +117,7 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Any = None) -> 
         unit = units.get(c.check.value, "")
         checks.append({
             "id": c.check.id, "criterion": c.check.criterion,
-            "value": number_text(c.value), "relation": c.check.relation,
+            "value": number_text(c.value), "relation": RELATIONS.get(c.check.relation, c.check.relation),
             "limit": number_text(c.limit), "unit": unit_text(unit), "verdict": c.verdict,
             "source": cite(refs[c.check.source].citation, c.check.locator), "locator": "",
             "value_href": f"#step-{c.check.value}" if c.check.value in stepped else f"#out-{c.check.value}",
@@ -132,11 +140,15 @@ def calc_view(run: CalcRun, runs_by_id: dict[str, CalcRun], cmp: Any = None) -> 
         if t.name not in run.tables:
             continue
         tab = run.tables[t.name]
+        shown = tab.rows[:TABLE_ROWS_SHOWN]
+        omitted = len(tab.rows) - len(shown)
         tables.append({
             "name": t.name, "title": t.title, "caption": t.caption,
-            "columns": [h + (f" ({unit_text(u)})" if unit_text(u) else "") for h, u in tab.columns],
-            "rows": [[table_cell(v) for v in row] for row in tab.rows],
+            "columns": [header_markup(h + (f" ({unit_text(u)})" if unit_text(u) else "")) for h, u in tab.columns],
+            "rows": table_rows(shown),
             "csv": f"tables/{run.id}-{t.name}.csv",
+            "omitted": (f"The first {len(shown)} of {len(tab.rows)} rows are shown; all {len(tab.rows)} "
+                        "are in the CSV file." if omitted else ""),
         })
     inst = run.instance
     return {
@@ -159,7 +171,20 @@ def table_csv(table: Any) -> str:
     w = csv.writer(buf, lineterminator="\n")
     w.writerow([h + (f" [{u}]" if u and u not in ("text",) else "") for h, u in table.columns])
     for row in table.rows:
-        w.writerow([v.label if isinstance(v, SourceRow) else (repr(float(v)) if isinstance(v, float) else v)
-                    for v in row])
+        w.writerow([csv_safe(v.label) if isinstance(v, SourceRow)
+                    else (repr(float(v)) if isinstance(v, float) else csv_safe(v)) for v in row])
     return buf.getvalue()
+
+
+def csv_safe(v: Any) -> Any:
+    """Text a spreadsheet would run as a formula (``=HYPERLINK(...)``, ``+``, ``-``, ``@``,
+    or a leading tab or carriage return) gets a leading apostrophe, as the OWASP guidance on
+    CSV injection advises; numbers are written as numbers and never touched, and a lone dash
+    (a table's "no value") is no formula."""
+    if isinstance(v, str) and v[:1] in ("=", "+", "-", "@", "\t", "\r") and v not in ("-", "+"):
+        try:
+            float(v)
+        except ValueError:
+            return "'" + v
+    return v
 

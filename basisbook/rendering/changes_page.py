@@ -12,6 +12,9 @@ from typing import Any
 from basisbook.rendering.mathfmt import format_value, unit_text
 from basisbook.running.engine import CalcRun
 
+# a group longer than this (a load list of thousands of new rows) is summarised on the page
+CHANGES_SHOWN = 1000
+
 
 def changes_view(cmp: Any, runs_by_id: dict[str, CalcRun]) -> dict[str, Any]:
     """The "changes since the previous revision" page: every row links to its calc page."""
@@ -37,9 +40,12 @@ def changes_view(cmp: Any, runs_by_id: dict[str, CalcRun]) -> dict[str, Any]:
                  "unit": unit_of(c),
                  "delta": (format_value(c.new - c.old) if kind == "output" and c.relative is not None else ""),
                  "percent": (f"{100 * c.relative:+.3g} %" if kind == "output" and c.relative is not None else "")}
-                for c in cmp.of(kind)]
+                for c in cmp.of(kind)[:CHANGES_SHOWN]]
         if rows:
-            groups.append({"title": title, "kind": kind, "rows": rows})
+            total = len(cmp.of(kind))
+            omitted = (f"The first {len(rows)} of {total} changes are shown; `basisbook diff` lists them all."
+                       if total > len(rows) else "")
+            groups.append({"title": title, "kind": kind, "rows": rows, "omitted": omitted})
     return {"changes": {"old": cmp.old_rev, "new": cmp.new_rev, "tolerance": f"{cmp.tolerance:g}",
                         "groups": groups, "count": len(cmp.changes)}}
 

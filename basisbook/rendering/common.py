@@ -3,6 +3,8 @@ revision block and navigation (``common_view``)."""
 
 from __future__ import annotations
 
+import html
+import re
 from pathlib import Path
 from typing import Any
 
@@ -11,7 +13,7 @@ from markupsafe import Markup
 from basisbook import __version__
 from basisbook.contract.spec import SourceRow
 from basisbook.reading.project import InputValue, Project
-from basisbook.rendering.mathfmt import mathml, number_text
+from basisbook.rendering.mathfmt import column_decimals, fixed_text, mathml, number_text
 from basisbook.rendering.source_pages import source_page
 from basisbook.rendering.templating import markdown
 from basisbook.running.engine import CalcRun
@@ -42,13 +44,36 @@ def cite(citation: str, locator: str) -> str:
     return f"{citation.rstrip().rstrip('.')}, {locator}" if locator else citation
 
 
-def table_cell(v: Any) -> dict[str, Any]:
-    """A result-table cell: numbers formatted, a source row as a link to its line."""
+def table_cell(v: Any, decimals: int | None = None) -> dict[str, Any]:
+    """A result-table cell: numbers formatted (with the column's decimals when it has a set
+    number), a source row as a link to its line."""
     if isinstance(v, SourceRow):
         return {"text": v.label, "href": f"{source_page(v.file)}#L{v.line}", "num": False}
     if isinstance(v, (int, float)) and not isinstance(v, bool):
-        return {"text": number_text(float(v)), "href": "", "num": True}
+        text = fixed_text(float(v), decimals) if decimals is not None else number_text(float(v))
+        return {"text": text, "href": "", "num": True}
     return {"text": str(v), "href": "", "num": False}
+
+
+def table_rows(rows: list[list[Any]] | tuple[Any, ...]) -> list[list[dict[str, Any]]]:
+    """Every cell of a result table, each numeric column with one number of decimals."""
+    width = max((len(r) for r in rows), default=0)
+    decimals = []
+    for col in range(width):
+        nums = [float(r[col]) for r in rows if col < len(r) and isinstance(r[col], (int, float))
+                and not isinstance(r[col], bool)]
+        decimals.append(column_decimals(nums))
+    return [[table_cell(v, decimals[i]) for i, v in enumerate(r)] for r in rows]
+
+
+_SUBSCRIPTED = re.compile(r"(?<![A-Za-z0-9&#;])([A-Za-z])_([A-Za-z0-9]+(?:,[A-Za-z0-9]+)*)")
+
+
+def header_markup(text: str) -> Markup:
+    """A table header in the trade's notation: ``P_in`` -> P with a real subscript "in"
+    (the calcs write headers in plain text).  The text is escaped before any tag is added."""
+    escaped = html.escape(text, quote=False)
+    return Markup(_SUBSCRIPTED.sub(r"<i>\1</i><sub>\2</sub>", escaped))
 
 
 def math_markup(latex: str, display: bool = False) -> Markup:
@@ -66,8 +91,25 @@ def snapshot_href(rev_id: str, archived: dict[str, Path], as_snapshot: str | Non
     return f"archive/rev-{rev_id}/index.html" if rev_id in archived else ""
 
 
+def register(runs: list[CalcRun], changes_since: str = "") -> list[dict[str, str]]:
+    """The document's sections in reading order, numbered: the summary, the changes since the
+    previous revision (when there are any), one section per calculation, then the appendices
+    lettered.  The same numbers stand in the navigation, the headings and the printed contents,
+    so a comment can cite "section 7, step 4"."""
+    items = [("Summary", "index.html")]
+    if changes_since:
+        items.append((f"Changes since revision {changes_since}", "changes.html"))
+    items += [(r.instance.title, f"{r.id}.html") for r in runs]
+    out = [{"n": str(i), "title": title, "href": href} for i, (title, href) in enumerate(items, start=1)]
+    for letter, (title, href) in zip("ABC", (("Dependency map", "dependencies.html"), ("Glossary", "glossary.html"),
+                                             ("Verification appendix", "verification.html")), strict=True):
+        out.append({"n": letter, "title": title, "href": href})
+    return out
+
+
 def common_view(project: Project, runs: list[CalcRun], archived: dict[str, Path] | None = None,
-                has_changes: bool = False, as_snapshot: str | None = None) -> dict[str, Any]:
+                has_changes: bool = False, as_snapshot: str | None = None,
+                changes_since: str = "") -> dict[str, Any]:
     rev = project.revision
     archived = archived or {}
     return {
@@ -79,6 +121,7 @@ def common_view(project: Project, runs: list[CalcRun], archived: dict[str, Path]
                        "snapshot": snapshot_href(r.id, archived, as_snapshot)}
                       for r in reversed(project.revisions)],
         "nav": [{"id": r.id, "title": r.instance.title, "href": f"{r.id}.html"} for r in runs],
+        "register": register(runs, changes_since if has_changes else ""),
         "has_changes": has_changes,
         "version": __version__,
     }

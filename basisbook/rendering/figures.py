@@ -10,6 +10,7 @@ from __future__ import annotations
 import hashlib
 import io
 import json
+import re
 import textwrap
 from typing import Any
 
@@ -109,7 +110,66 @@ def _legend(fig: Any, chart: Chart, ncol: int, rows: int) -> None:
         y = 0.025 + (rows - 1 - row) * _LEGEND_PITCH
         fig.add_artist(Line2D([x, x + _HANDLE], [y, y], transform=fig.transFigure, linewidth=1.6,
                               linestyle=_STYLES.get(s.style, "-"), color=_COLOURS[i % len(_COLOURS)]))
-        fig.text(x + _HANDLE + 0.012, y, s.label, va="center", fontsize=_LEGEND_FONT, parse_math=False)
+        fig.text(x + _HANDLE + 0.012, y, trade_notation(s.label), va="center", fontsize=_LEGEND_FONT)
+
+
+_SUBSCRIPTED = re.compile(r"(?<![A-Za-z0-9\\])([A-Za-z])('{0,2})_([A-Za-z0-9]+)")
+
+
+def trade_notation(text: str) -> str:
+    """A label in the notation of the trade, as matplotlib mathtext: ``U/U_r`` -> U/U with
+    an upright subscript r, ``x''_d`` with a double prime, ``I_f`` -> I with subscript f.  Any
+    other ``$`` is kept as a dollar sign.  The calcs write labels in plain text; drawing them
+    is the renderer's job."""
+    escaped = text.replace("$", r"\$")
+
+    def sub(m: re.Match[str]) -> str:
+        prime = {"": "", "'": r"^{\prime}", "''": r"^{\prime\prime}"}[m.group(2)]
+        return f"${m.group(1)}{prime}_{{\\mathrm{{{m.group(3)}}}}}$"
+
+    # a ratio of a quantity to its rated value (U/U_r) is one symbol
+    escaped = _RATIO.sub(lambda m: f"${m.group(1)}/{m.group(2)}_{{\\mathrm{{{m.group(3)}}}}}$", escaped)
+    return _SUBSCRIPTED.sub(sub, escaped)
+
+
+_RATIO = re.compile(r"(?<![A-Za-z0-9\\$])([A-Za-z])/([A-Za-z])_([A-Za-z0-9]+)")
+
+
+def _marker_labels(ax: Any, chart: Chart) -> None:
+    """Each marker's label beside its point, on the side (up or down, right or left) where
+    it covers the fewest points of the lines and no other label, and never past the axes."""
+    import numpy as np
+
+    to_px = ax.transData.transform
+    lines = [to_px(np.column_stack([np.asarray(s.x, float), np.asarray(s.y, float)]))
+             for s in chart.series if len(s.x)]
+    points = np.vstack(lines) if lines else np.empty((0, 2))
+    box = ax.get_window_extent()
+    dpi = ax.figure.dpi
+    taken: list[tuple[float, float, float, float]] = []
+    for m in chart.markers:
+        label = trade_notation(m.label)
+        px, py = to_px((m.x, m.y))
+        w = 0.55 * 8 * len(m.label) * dpi / 72  # about 0.55 em a character at 8 pt
+        h = 11 * dpi / 72
+        best = None
+        for dx, dy in ((1, 1), (-1, 1), (1, -1), (-1, -1)):
+            x0 = px + dx * 6 * dpi / 72 - (w if dx < 0 else 0)
+            y0 = py + dy * 6 * dpi / 72 - (h if dy < 0 else 0)
+            rect = (x0, y0, x0 + w, y0 + h)
+            outside = rect[0] < box.x0 or rect[2] > box.x1 or rect[1] < box.y0 or rect[3] > box.y1
+            covered = int(np.count_nonzero((points[:, 0] >= rect[0]) & (points[:, 0] <= rect[2])
+                                           & (points[:, 1] >= rect[1]) & (points[:, 1] <= rect[3])))
+            clash = sum(1 for o in taken if not (rect[2] < o[0] or rect[0] > o[2] or rect[3] < o[1]
+                                                  or rect[1] > o[3]))
+            score = (outside, clash, covered)
+            if best is None or score < best[0]:
+                best = (score, dx, dy, rect)
+        assert best is not None
+        _, dx, dy, rect = best
+        taken.append(rect)
+        ax.annotate(label, (m.x, m.y), textcoords="offset points", xytext=(6 * dx, 6 * dy),
+                    ha="left" if dx > 0 else "right", va="bottom" if dy > 0 else "top", fontsize=8)
 
 
 def _render_chart(chart: Chart, title: str) -> str:
@@ -123,14 +183,8 @@ def _render_chart(chart: Chart, title: str) -> str:
                     label=s.label, linewidth=1.6)
         for m in chart.markers:
             ax.plot([m.x], [m.y], "o", color="black", markersize=5)
-        x0, x1 = ax.get_xlim()
-        for m in chart.markers:
-            # labels near the right edge go to the left of their point, so none is cut off
-            right = m.x > x0 + 0.72 * (x1 - x0)
-            ax.annotate(m.label, (m.x, m.y), textcoords="offset points", xytext=(-6 if right else 6, 6),
-                        ha="right" if right else "left", fontsize=8, parse_math=False)
-        ax.set_xlabel(chart.x_label)
-        ax.set_ylabel(chart.y_label)
+        ax.set_xlabel(trade_notation(chart.x_label))
+        ax.set_ylabel(trade_notation(chart.y_label))
         # a fixed title position: matplotlib otherwise measures every tick label to place it
         ax.set_title(textwrap.fill(title, 78), fontsize=10, parse_math=False, y=1.0, pad=6)
         if chart.x_range:
@@ -150,4 +204,9 @@ def _render_chart(chart: Chart, title: str) -> str:
         top = 0.93 if len(title) <= 78 else 0.89
         fig.subplots_adjust(left=0.12, right=0.97, top=top, bottom=bottom + 0.04)
         _legend(fig, chart, ncol, rows)
+        # last, once the axes have their final place and limits
+        ax.get_xlim(), ax.get_ylim()
+        if chart.equal_aspect:
+            ax.apply_aspect()
+        _marker_labels(ax, chart)
         return _svg(fig)

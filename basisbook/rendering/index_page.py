@@ -6,7 +6,7 @@ from typing import Any
 
 from basisbook.reading.project import SITE_FIELDS, Project
 from basisbook.rendering.common import math_markup, source_view
-from basisbook.rendering.mathfmt import number_text, unit_text
+from basisbook.rendering.mathfmt import input_text, number_text, unit_text
 from basisbook.rendering.templating import markdown
 from basisbook.running.engine import CalcRun
 
@@ -29,7 +29,7 @@ def index_view(project: Project, runs: list[CalcRun]) -> dict[str, Any]:
     for f in SITE_FIELDS:
         iv = project.site[f.name]
         site.append({"name": f.name, "symbol": math_markup(f.symbol), "meaning": f.meaning,
-                     "value": number_text(iv.value), "unit": unit_text(f.unit),  # type: ignore[arg-type]
+                     "value": input_text(iv.value), "unit": unit_text(f.unit),  # type: ignore[arg-type]
                      "source": source_view(iv, "")})
     return {"summary": summary, "site": site, "notes": markdown(project.notes)}
 

@@ -17,6 +17,7 @@ from basisbook.contract.spec import PLACEHOLDER
 
 SIGNIFICANT = 4
 _SUPERSCRIPT = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
+_FROM_SUPERSCRIPT = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹⁻", "0123456789-")
 _MATHRM = re.compile(r"\\mathrm\{([^{}]*)\}")
 
 _UNIT_LATEX = {
@@ -72,20 +73,90 @@ def _plain_number(x: float, digits: int) -> str:
     return f"{m}×10{str(int(e)).translate(_SUPERSCRIPT)}"
 
 
-def number_latex(x: float | str) -> str:
+# A value substituted into a numbers line carries this many significant figures at most
+# (fewer when it has fewer, as typed: 0.8, not 0.8000), so that a reviewer who recomputes
+# the line from the printed numbers gets the result as printed at SIGNIFICANT figures.
+SUBSTITUTED = 6
+
+
+def substituted_text(x: float) -> str:
+    """A value as written into a numbers line: its shortest exact form when that has at
+    most SUBSTITUTED significant figures (what the engineer typed), else rounded to them."""
+    if x == 0 or not math.isfinite(x):
+        return _plain_number(x, SIGNIFICANT)
+    s = f"{x:.{SUBSTITUTED - 1}e}"
+    rounded = float(s)
+    mag = math.floor(math.log10(abs(rounded)))
+    if -3 <= mag < 6:
+        digits = f"{abs(rounded):.{max(SUBSTITUTED - 1 - mag, 0)}f}"
+        if "." in digits:
+            digits = digits.rstrip("0").rstrip(".")
+        return ("-" if rounded < 0 else "") + digits
+    m, e = s.split("e")
+    if "." in m:
+        m = m.rstrip("0").rstrip(".")
+    return f"{m}×10{str(int(e)).translate(_SUPERSCRIPT)}"
+
+
+def trimmed(x: float, digits: int) -> str:
+    """``digits`` significant figures without the trailing zeros that claim more than the
+    number has (93.75, not 93.7500000000), with a true minus sign."""
+    text = number_text(x, digits)
+    if "." in text and "×" not in text:
+        text = text.rstrip("0").rstrip(".")
+    elif "." in text:
+        m, e = text.split("×")
+        text = m.rstrip("0").rstrip(".") + "×" + e
+    return text
+
+
+def column_decimals(values: list[float]) -> int | None:
+    """The decimals a table column is shown with, the same in every row: enough for four
+    significant figures of its largest magnitude and two of its smallest (at most four
+    decimals); None (each number on its own) when the column needs an exponent or holds
+    only whole numbers."""
+    finite = [abs(v) for v in values if math.isfinite(v)]
+    if not finite or all(v == round(v) for v in finite):
+        return None
+    nonzero = [v for v in finite if v > 0]
+    if not nonzero:
+        return None
+    top, low = math.floor(math.log10(max(nonzero))), math.floor(math.log10(min(nonzero)))
+    if not -3 <= top < 6:
+        return None
+    return min(max(SIGNIFICANT - 1 - top, 1 - low, 0), 4)
+
+
+def fixed_text(x: float, decimals: int) -> str:
+    """``x`` with a set number of decimals and a true minus sign."""
+    text = f"{x:.{decimals}f}"
+    if float(text) == 0:
+        text = text.lstrip("-")
+    return text.replace("-", "\u2212")
+
+
+def input_text(x: float | str) -> str:
+    """An input as the engineer typed it (0.8, 12.5, 0.915; at most SUBSTITUTED significant
+    figures), with a true minus sign."""
+    if isinstance(x, str):
+        return x
+    return substituted_text(x).replace("-", "\u2212")
+
+
+def number_latex(x: float | str, substituted: bool = False) -> str:
     if isinstance(x, str):
         return r"\text{" + x + "}"
-    t = _plain_number(x, SIGNIFICANT)
+    t = substituted_text(x) if substituted else _plain_number(x, SIGNIFICANT)
     if "×10" in t:
-        m, e = f"{x:.{SIGNIFICANT - 1}e}".split("e")
-        return f"{m} \\times 10^{{{int(e)}}}"
+        m, e = t.split("×10")
+        return f"{m} \\times 10^{{{int(e.translate(_FROM_SUPERSCRIPT))}}}"
     return t
 
 
-def quantity_latex(x: float | str | tuple, unit: str) -> str:
+def quantity_latex(x: float | str | tuple, unit: str, substituted: bool = False) -> str:
     if isinstance(x, tuple):
         return r"\text{(table)}"
-    return number_latex(x) + ("" if isinstance(x, str) else unit_latex(unit))
+    return number_latex(x, substituted) + ("" if isinstance(x, str) else unit_latex(unit))
 
 
 def substitute(expression: str, symbols: dict[str, str]) -> str:
@@ -121,7 +192,7 @@ def substitute_values(expression: str, values: dict[str, tuple[float | str, str]
 
     def repl(m: re.Match[str]) -> str:
         v, unit = values[m.group(1)]
-        q = emit(quantity_latex(v, unit))
+        q = emit(quantity_latex(v, unit, substituted=True))
         if isinstance(v, tuple):
             return "{" + q + "}"
         # a negative number or one with a unit inside a product reads better in brackets,
@@ -140,9 +211,16 @@ def substitute_values(expression: str, values: dict[str, tuple[float | str, str]
 def mathml(latex: str, display: bool = False) -> str:
     from latex2mathml.converter import convert
 
-    # upright subscripts and names: the converter italicises a one-letter \mathrm
-    latex = _MATHRM.sub(lambda m: r"\text{" + m.group(1) + "}", latex)
+    # upright subscripts and names: the converter italicises a one-letter \mathrm; inside
+    # \text a LaTeX space (\, \; \ ~) would be printed as written, so it becomes a space
+    latex = _MATHRM.sub(lambda m: r"\text{" + _TEXT_SPACE.sub(" ", m.group(1)) + "}", latex)
+    # operator names the converter does not know (it would print "\arg" as it stands)
+    latex = _OPERATORS.sub(lambda m: r"\operatorname{" + m.group(1) + "}", latex)
     return convert(latex, display="block" if display else "inline")
+
+
+_TEXT_SPACE = re.compile(r"\\[,;: ]|~")
+_OPERATORS = re.compile(r"\\(arg)(?![A-Za-z])")
 
 
 # A slot stands for one quantity while an expression's shape is converted; no

@@ -63,5 +63,33 @@ def sections(rendered: dict[str, str], order: list[tuple[str, str]],
         body = hit[1] if hit is not None and hit[0] == text else localise(main_of(text), page, pages)
         if cache is not None:
             cache[page] = (text, body)
-        out.append({"anchor": f"{_prefix(page)}top", "title": title, "body": body})
+        out.append({"anchor": f"{_prefix(page)}top", "title": title, "body": body, "page": page})
     return out
+
+
+def css_string(text: str) -> str:
+    """``text`` as a quoted CSS string that cannot end the string or the style element."""
+    out = []
+    for ch in text:
+        if ch in '\\"<>&' or ord(ch) < 32:
+            out.append(f"\\{ord(ch):x} ")
+        else:
+            out.append(ch)
+    return '"' + "".join(out) + '"'
+
+
+def print_css(number: str, name: str, rev_id: str, purpose: str, paper: str = "A4") -> str:
+    """The printed page's running header and footer (CSS paged media margin boxes, which
+    chromium prints): document number and title top left, revision and status top right,
+    "page k of n" bottom right, on every page of the one-document view."""
+    left = " · ".join(x for x in (number, name) if x)
+    return (f"@page {{ size: {paper}; margin: 18mm 14mm 16mm 14mm;\n"
+            f"  @top-left {{ content: {css_string(left)}; font: 8.5pt sans-serif; color: #444; }}\n"
+            f"  @top-right {{ content: {css_string(f'Rev {rev_id} · {purpose}')}; font: 8.5pt sans-serif; "
+            "color: #444; }\n"
+            f"  @bottom-left {{ content: {css_string('Electrical and energy design basis')}; "
+            "font: 8.5pt sans-serif; color: #444; }\n"
+            '  @bottom-right { content: "page " counter(page) " of " counter(pages); font: 8.5pt sans-serif; }\n'
+            "}\n"
+            # the cover carries the title block itself
+            "@page :first { @top-left { content: none; } @top-right { content: none; } }\n")

@@ -32,6 +32,26 @@ from basisbook.running.engine import CalcRun
 from basisbook.running.results import results_document
 
 SITE_MARKER = ".basisbook-site"
+# present while ``serve`` syncs a rebuild into the live folder file by file: a site that
+# still has it was cut off part-way, and the next build or serve start makes it whole
+INCOMPLETE_MARKER = ".basisbook-incomplete"
+_MARKER_HEAD = "basisbook site: this folder is replaced on every build\n"
+
+
+def site_marker(paths: list[str]) -> bytes:
+    """The marker file: says the folder is a built site and lists every file the build
+    wrote, so a later build can refuse to replace files someone else put there."""
+    return (_MARKER_HEAD + "files written by the build:\n"
+            + "".join(f"{p}\n" for p in sorted(paths))).encode("utf-8")
+
+
+def site_listing(marker_text: str) -> set[str] | None:
+    """The files a marker lists (with the marker itself), or None for an older marker that
+    listed none."""
+    head, _, rest = marker_text.partition("files written by the build:\n")
+    if not rest and "files written by the build:" not in marker_text:
+        return None
+    return {line for line in rest.splitlines() if line} | {SITE_MARKER}
 
 
 def figure_jobs(run: CalcRun) -> list[tuple[str, Any, str]]:
@@ -231,7 +251,9 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
     env = cache.environment(project.root)
     cmp = comparison
     archived = {} if as_snapshot is not None or archived is None else dict(archived)
-    common = common_view(project, runs, archived, cmp is not None, as_snapshot)
+    common = common_view(project, runs, archived, cmp is not None, as_snapshot,
+                         cmp.old_rev if cmp is not None else "")
+    numbers = {s["href"]: s["n"] for s in common["register"]}
     by_id = {r.id: r for r in runs}
     files: dict[str, bytes] = {}
     rendered: dict[str, str] = {}
@@ -240,7 +262,8 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
     figure_files = {rel: cache.request(chart, title) for r in runs for rel, chart, title in figure_jobs(r)}
 
     def page(rel: str, template: str, root: str, stand_ins: dict[str, str] | None = None, **ctx: Any) -> None:
-        text = cache.page(env, template, {"root": root, "page": rel, **common, **ctx}, stand_ins)
+        text = cache.page(env, template, {"root": root, "page": rel, "number": numbers.get(rel, ""), **common, **ctx},
+                          stand_ins)
         files[rel] = text.encode("utf-8")
         rendered[rel] = text
 
@@ -256,24 +279,23 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
         for t in r.spec.tables:
             if t.name in r.tables:
                 files[f"tables/{r.id}-{t.name}.csv"] = table_csv(r.tables[t.name]).encode("utf-8")
+    linked = _linked_lines(rendered.values(), [source_page(rel) for rel in project.files])
     for rel in project.files:
-        page(source_page(rel), "source.html", "../", **source_file_view(project, rel))
+        page(source_page(rel), "source.html", "../", **source_file_view(project, rel, linked[source_page(rel)]))
     for folder in (builtin_templates() / "static", project.root / "templates" / "static"):
         if folder.is_dir():  # a project's own static files override the built-in ones
             for f in sorted(folder.iterdir()):
                 if f.is_file():
                     files[f"assets/{f.name}"] = f.read_bytes()
     # the one-document view, in reading order, for print and PDF
-    order = [("index.html", "Summary")]
-    if cmp is not None:
-        order.append(("changes.html", f"Changes since revision {cmp.old_rev}"))
-    order += [(f"{r.id}.html", r.instance.title) for r in runs]
-    order += [("dependencies.html", "Dependency map"), ("glossary.html", "Glossary"),
-              ("verification.html", "Verification appendix")]
+    order = [(s["href"], s["title"]) for s in common["register"]]
     # the one-document view changes whenever any page does: rendered, never looked up
+    rev = project.revision
     files["handbook.html"] = env.get_template("handbook.html").render(
-        root="", page="handbook.html", **common, sections=[
-            {**sec, "body": Markup(sec["body"])} for sec in one_document.sections(rendered, order, cache.sections)]
+        root="", page="handbook.html", **common,
+        print_css=Markup(one_document.print_css(project.number, project.name, rev.id, rev.purpose)), sections=[
+            {**sec, "body": Markup(sec["body"]), "n": numbers[sec["page"]]}
+            for sec in one_document.sections(rendered, order, cache.sections)]
     ).encode("utf-8")
     files["assets/search-index.js"] = search_index(runs).encode("utf-8")
     doc = results_document(project, runs)
@@ -282,11 +304,25 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
         for f in sorted(site.rglob("*")):
             if f.is_file():
                 files[f"archive/rev-{rev_id}/{f.relative_to(site).as_posix()}"] = f.read_bytes()
-    files[SITE_MARKER] = b"basisbook site: this folder is replaced on every build\n"
+    files[SITE_MARKER] = site_marker([*files, *figure_files])
     cache.pending = figure_files
     if complete:
         cache.complete(files)
     return files
+
+
+def _linked_lines(pages: Any, sources: list[str]) -> dict[str, set[int]]:
+    """For each source page, the line numbers the rendered pages link to (a long input file
+    is summarised but keeps these, so no link of the site dangles)."""
+    import re
+
+    out: dict[str, set[int]] = {s: set() for s in sources}
+    pattern = re.compile(r'href="(?:\.\./)?(source/[^"#]+)#L(\d+)"')
+    for text in pages:
+        for m in pattern.finditer(text):
+            if m.group(1) in out:
+                out[m.group(1)].add(int(m.group(2)))
+    return out
 
 
 def write_files(files: dict[str, bytes], out: Path) -> None:

@@ -14,6 +14,28 @@ def source_page(rel: str) -> str:
     return "source/" + rel.replace("/", "__") + ".html"
 
 
-def source_file_view(project: Project, rel: str) -> dict[str, Any]:
-    lines = [{"n": i, "text": t} for i, t in enumerate(display_lines(project.root / rel), start=1)]
-    return {"file": rel, "lines": lines}
+# a file longer than this shows its first lines and every line a page links to; the
+# rest is summarised (the file itself is in the project folder and any archive of it)
+SOURCE_LINES_SHOWN = 5000
+
+
+def source_file_view(project: Project, rel: str, linked: set[int] | None = None) -> dict[str, Any]:
+    """The numbered lines of an input file; ``linked`` are the line numbers that pages
+    of the site link to, which a summarised long file keeps."""
+    text = display_lines(project.root / rel)
+    keep = set(range(1, SOURCE_LINES_SHOWN + 1)) | (linked or set())
+    lines: list[dict[str, Any]] = []
+    gap = 0
+    for i, t in enumerate(text, start=1):
+        if i in keep:
+            if gap:
+                lines.append({"n": 0, "text": f"({gap} lines not shown)"})
+                gap = 0
+            lines.append({"n": i, "text": t})
+        else:
+            gap += 1
+    if gap:
+        lines.append({"n": 0, "text": f"({gap} lines not shown)"})
+    summary = (f"This file has {len(text)} lines: the first {SOURCE_LINES_SHOWN} and every line a "
+               "page links to are shown." if len(text) > SOURCE_LINES_SHOWN else "")
+    return {"file": rel, "lines": lines, "summary": summary}

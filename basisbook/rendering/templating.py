@@ -53,13 +53,27 @@ _MD: Any = None
 
 def safe_link(url: str) -> bool:
     """Links in project notes may only point inside the handbook: an anchor or a
-    relative page, never a scheme (http:, javascript:, file:), an absolute path or '..'."""
+    relative page, never a scheme (http:, https:, javascript:, file:: the handbook opens
+    with no network), an absolute path or '..'.  The URL is judged as a browser reads it:
+    percent-encoding is decoded first (``%2e%2e/`` is ``../``), repeatedly, since a
+    doubly encoded one is decoded again by some readers."""
     import re
+    from urllib.parse import unquote
 
     u = url.strip()
-    if not u or u.startswith(("/", "\\")) or re.match(r"^[A-Za-z][A-Za-z0-9+.-]*:", u):
+    for _ in range(5):
+        decoded = unquote(u)
+        if decoded == u:
+            break
+        u = decoded
+    else:
+        return False  # encoded deeper than any real link is
+    if not u or any(ord(ch) < 32 or ch == "\x7f" for ch in u):
         return False
-    return ".." not in u.replace("\\", "/").split("/")
+    u = u.replace("\\", "/")
+    if u.startswith("/") or re.match(r"^[A-Za-z][A-Za-z0-9+.-]*:", u):
+        return False
+    return ".." not in u.split("#", 1)[0].split("?", 1)[0].split("/")
 
 
 @lru_cache(maxsize=1024)

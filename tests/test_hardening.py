@@ -294,3 +294,16 @@ def test_a_very_long_load_list_is_summarised_on_pages_and_kept_whole_in_csv(demo
                   if f"X-{SOURCE_LINES_SHOWN + 999:05d}" in p.read_text(encoding="utf-8")]
     assert table_csvs, "the full rows stay in the table's CSV"
     assert check_links(out) == []  # every row a page links to is still on its source page
+
+
+def test_a_load_list_page_says_how_its_file_was_read(demo_copy: Path, tmp_path: Path) -> None:
+    csv = demo_copy / "loads" / "stg1-auxiliaries.csv"
+    lines = csv.read_text(encoding="utf-8").splitlines()
+    # the same list as a semicolon file with decimal commas, as a spreadsheet set to a
+    # comma-decimal locale saves it
+    converted = [lines[0]] + [ln.replace(",", ";").replace(".", ",") for ln in lines[1:]]
+    csv.write_text("\n".join(converted) + "\n", encoding="utf-8")
+    out = tmp_path / "site"
+    build(demo_copy, out)
+    page = (out / "source" / "loads__stg1-auxiliaries.csv.html").read_text(encoding="utf-8")
+    assert "semicolon" in page and "decimal comma" in page

@@ -6,7 +6,7 @@ from __future__ import annotations
 from typing import Any
 
 from basisbook.reading.project import Project
-from basisbook.reading.records import display_lines
+from basisbook.reading.records import convention, display_lines
 
 
 def source_page(rel: str) -> str:
@@ -38,4 +38,7 @@ def source_file_view(project: Project, rel: str, linked: set[int] | None = None)
         lines.append({"n": 0, "text": f"({gap} lines not shown)"})
     summary = (f"This file has {len(text)} lines: the first {SOURCE_LINES_SHOWN} and every line a "
                "page links to are shown." if len(text) > SOURCE_LINES_SHOWN else "")
-    return {"file": rel, "lines": lines, "summary": summary}
+    # a load list says how it was read (separator, decimal mark), so a reviewer can tell
+    # 355,5 kW from 3555 kW
+    read_as = convention(project.root / rel).text() if rel.lower().endswith((".csv", ".xlsx")) else ""
+    return {"file": rel, "lines": lines, "summary": summary, "read_as": read_as}

@@ -160,6 +160,7 @@ REFERENCES = [
 
 SPEC = CalcSpec(
     kind="auxiliary_load",
+    discipline="auxiliary supply and transformers",
     title="Unit auxiliary load and maximum demand",
     purpose=(
         "Sum the unit's auxiliary load list per busbar section and for the unit: connected load, "

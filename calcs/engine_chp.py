@@ -206,6 +206,7 @@ REFERENCES = [
 
 SPEC = CalcSpec(
     kind="engine_chp",
+    discipline="conversion chains",
     title="Gas-engine CHP set: fuel, electricity, recovered heat and primary energy savings",
     purpose=(
         "Fix the fuel input of the gas-engine CHP set from its gas, the electricity and the heat "

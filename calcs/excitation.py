@@ -503,6 +503,7 @@ _SIN_PHI = r"\,\sqrt{1 - @generator_power_factor^{2}}"  # sin(phi_r), lagging
 
 SPEC = CalcSpec(
     kind="excitation_system",
+    discipline="excitation",
     title="Excitation demand and static exciter",
     purpose=(
         "Fix how much field current and voltage the generator needs from no load to rated load "

@@ -230,6 +230,7 @@ def _ratings(prefix: str, title: str) -> list[Input]:
 
 SPEC = CalcSpec(
     kind="fault_levels",
+    discipline="fault levels",
     title="Fault levels, motor start, grid-connection reactive capability and key single-line diagram",
     purpose=(
         "Find the initial symmetrical and peak short-circuit currents at the grid connection, the "

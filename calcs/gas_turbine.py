@@ -144,6 +144,7 @@ REFERENCES = [
 
 SPEC = CalcSpec(
     kind="gas_turbine",
+    discipline="conversion chains",
     title="Simple-cycle gas turbine: work, efficiency, heat rate and exhaust",
     purpose=(
         "Fix the state points of a simple gas-turbine cycle from the pressure ratio, turbine inlet "

@@ -137,6 +137,7 @@ REFERENCES = [
 
 SPEC = CalcSpec(
     kind="hydro_unit",
+    discipline="conversion chains",
     title="Hydro unit: water power to grid and annual energy",
     purpose=(
         "Fix the hydraulic power of the design flow over the gross head, the penstock head loss "

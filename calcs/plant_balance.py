@@ -68,6 +68,7 @@ REFERENCES = [
 
 SPEC = CalcSpec(
     kind="plant_balance",
+    discipline="plant balance",
     title="Plant energy balance: units, auxiliary load, export and annual energy",
     purpose=(
         "Add the plant's generating units: gross electrical output, auxiliary load and net "

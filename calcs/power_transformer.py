@@ -157,6 +157,7 @@ REFERENCES = [
 
 SPEC = CalcSpec(
     kind="power_transformer",
+    discipline="auxiliary supply and transformers",
     title="Power transformer rating, impedance, regulation and losses",
     purpose=(
         "Size a two-winding power transformer (generator step-up or unit auxiliary) from the active "

@@ -407,6 +407,7 @@ _SWEEP_POINTS = 7
 
 SPEC = CalcSpec(
     kind="steam_cycle",
+    discipline="conversion chains",
     title="Steam cycle efficiency chain: state points, flows and efficiencies",
     purpose=(
         "Fix the energy chain of the biomass steam unit from fuel to net export: every state "

@@ -272,6 +272,7 @@ REFERENCES = [
 
 SPEC = CalcSpec(
     kind="synchronous_generator",
+    discipline="generation",
     title="Synchronous generator rating, phasor diagram and capability chart",
     purpose=(
         "Fix the generator's rated apparent power and current, pole count and speed, the "

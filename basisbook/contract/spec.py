@@ -274,8 +274,16 @@ class TableSpec:
     caption: str = ""
 
 
+
+# the handbook's default outline: its groups of calculations, in reading order
+DISCIPLINES = ("generation", "excitation", "conversion chains", "auxiliary supply and transformers",
+               "fault levels", "plant balance")
+
 @dataclass
 class CalcSpec:
+    """``discipline`` places the calculation in the handbook's default outline (one of
+    DISCIPLINES, in that order), so the document reads by system, not by run order."""
+
     kind: str
     title: str
     purpose: str
@@ -288,8 +296,11 @@ class CalcSpec:
     figures: Sequence[FigureSpec] = ()
     tables: Sequence[TableSpec] = ()
     glossary: Mapping[str, Term] = field(default_factory=dict)
+    discipline: str = ""  # required in effect: checked against DISCIPLINES below
 
     def __post_init__(self) -> None:
+        if self.discipline not in DISCIPLINES:
+            raise SpecError(f"{self.kind}: discipline {self.discipline!r} is not one of {DISCIPLINES}")
         self.inputs = tuple(self._fill(i) for i in self.inputs)
         self.outputs = tuple(self._fill(o) for o in self.outputs)
         names = [i.name for i in self.inputs] + [o.name for o in self.outputs]

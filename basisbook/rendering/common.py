@@ -11,7 +11,7 @@ from typing import Any
 from markupsafe import Markup
 
 from basisbook import __version__
-from basisbook.contract.spec import SourceRow
+from basisbook.contract.spec import DISCIPLINES, SourceRow
 from basisbook.reading.project import InputValue, Project
 from basisbook.rendering.mathfmt import column_decimals, fixed_text, mathml, number_text
 from basisbook.rendering.source_pages import source_page
@@ -91,19 +91,30 @@ def snapshot_href(rev_id: str, archived: dict[str, Path], as_snapshot: str | Non
     return f"archive/rev-{rev_id}/index.html" if rev_id in archived else ""
 
 
-def register(runs: list[CalcRun], changes_since: str = "") -> list[dict[str, str]]:
-    """The document's sections in reading order, numbered: the summary, the changes since the
-    previous revision (when there are any), one section per calculation, then the appendices
-    lettered.  The same numbers stand in the navigation, the headings and the printed contents,
-    so a comment can cite "section 7, step 4"."""
-    items = [("Summary", "index.html")]
+def register(project: Project, runs: list[CalcRun], changes_since: str = "") -> list[dict[str, Any]]:
+    """The document's outline in reading order, numbered: the summary, the changes since the
+    previous revision (when there are any), the calculations grouped by discipline (in the
+    order of ``DISCIPLINES``, each group's in the order the project lists them), then the
+    appendices lettered.  The same numbers stand in the navigation, the headings and the
+    printed contents, so a comment can cite "section 3.2, step 4".  A group is an entry
+    without a page (``href`` empty)."""
+    out: list[dict[str, Any]] = [{"n": "1", "title": "Summary", "href": "index.html", "group": False}]
     if changes_since:
-        items.append((f"Changes since revision {changes_since}", "changes.html"))
-    items += [(r.instance.title, f"{r.id}.html") for r in runs]
-    out = [{"n": str(i), "title": title, "href": href} for i, (title, href) in enumerate(items, start=1)]
+        out.append({"n": "2", "title": f"Changes since revision {changes_since}", "href": "changes.html",
+                    "group": False})
+    place = {inst.id: i for i, inst in enumerate(project.instances)}
+    number = len(out)
+    for discipline in DISCIPLINES:
+        members = sorted((r for r in runs if r.spec.discipline == discipline), key=lambda r: place.get(r.id, 0))
+        if not members:
+            continue
+        number += 1
+        out.append({"n": str(number), "title": discipline[0].upper() + discipline[1:], "href": "", "group": True})
+        out += [{"n": f"{number}.{k}", "title": r.instance.title, "href": f"{r.id}.html", "group": False}
+                for k, r in enumerate(members, start=1)]
     for letter, (title, href) in zip("ABC", (("Dependency map", "dependencies.html"), ("Glossary", "glossary.html"),
                                              ("Verification appendix", "verification.html")), strict=True):
-        out.append({"n": letter, "title": title, "href": href})
+        out.append({"n": letter, "title": title, "href": href, "group": False})
     return out
 
 
@@ -121,7 +132,7 @@ def common_view(project: Project, runs: list[CalcRun], archived: dict[str, Path]
                        "snapshot": snapshot_href(r.id, archived, as_snapshot)}
                       for r in reversed(project.revisions)],
         "nav": [{"id": r.id, "title": r.instance.title, "href": f"{r.id}.html"} for r in runs],
-        "register": register(runs, changes_since if has_changes else ""),
+        "register": register(project, runs, changes_since if has_changes else ""),
         "has_changes": has_changes,
         "version": __version__,
     }

@@ -45,6 +45,11 @@ def localise(body: str, page: str, pages: set[str]) -> str:
     return _ATTR.sub(repl, body)
 
 
+def page_anchor(page: str) -> str:
+    """The anchor of a page's section in the one-document view."""
+    return f"{_prefix(page)}top"
+
+
 def sections(rendered: dict[str, str], order: list[tuple[str, str]],
              cache: dict[str, tuple[str, str]] | None = None) -> list[dict[str, str]]:
     """[(page, title)] -> sections with an anchor, a title and the localised body.

@@ -253,7 +253,7 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
     archived = {} if as_snapshot is not None or archived is None else dict(archived)
     common = common_view(project, runs, archived, cmp is not None, as_snapshot,
                          cmp.old_rev if cmp is not None else "")
-    numbers = {s["href"]: s["n"] for s in common["register"]}
+    numbers = {s["href"]: s["n"] for s in common["register"] if s["href"]}
     by_id = {r.id: r for r in runs}
     files: dict[str, bytes] = {}
     rendered: dict[str, str] = {}
@@ -288,11 +288,14 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
                 if f.is_file():
                     files[f"assets/{f.name}"] = f.read_bytes()
     # the one-document view, in reading order, for print and PDF
-    order = [(s["href"], s["title"]) for s in common["register"]]
+    order = [(s["href"], s["title"]) for s in common["register"] if s["href"]]
     # the one-document view changes whenever any page does: rendered, never looked up
     rev = project.revision
+    # the printed contents: the outline, a group as a heading, each page with its anchor
+    contents = [{**s, "anchor": "" if s["group"] else one_document.page_anchor(s["href"])}
+                for s in common["register"]]
     files["handbook.html"] = env.get_template("handbook.html").render(
-        root="", page="handbook.html", **common,
+        root="", page="handbook.html", contents=contents, **common,
         print_css=Markup(one_document.print_css(project.number, project.name, rev.id, rev.purpose)), sections=[
             {**sec, "body": Markup(sec["body"]), "n": numbers[sec["page"]]}
             for sec in one_document.sections(rendered, order, cache.sections)]

@@ -55,12 +55,6 @@ def section_pages(pdf: Path, anchors: list[str]) -> dict[str, int]:
     return out
 
 
-def page_count(pdf: Path) -> int:
-    from pypdf import PdfReader
-
-    return len(PdfReader(str(pdf)).pages)
-
-
 def _numbered(html: str, pages: dict[str, int]) -> str:
     return _TOC_PAGE.sub(lambda m: f'<span class="toc-page" data-anchor="{m.group(1)}">'
                          f'{pages.get(m.group(1), "")}</span>', html)

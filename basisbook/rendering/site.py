@@ -9,6 +9,7 @@ between builds.
 from __future__ import annotations
 
 import json
+import re
 from collections.abc import Mapping
 from pathlib import Path
 from typing import Any
@@ -36,20 +37,21 @@ SITE_MARKER = ".basisbook-site"
 # still has it was cut off part-way, and the next build or serve start makes it whole
 INCOMPLETE_MARKER = ".basisbook-incomplete"
 _MARKER_HEAD = "basisbook site: this folder is replaced on every build\n"
+_MARKER_LIST = "files written by the build:\n"
 
 
 def site_marker(paths: list[str]) -> bytes:
     """The marker file: says the folder is a built site and lists every file the build
     wrote, so a later build can refuse to replace files someone else put there."""
-    return (_MARKER_HEAD + "files written by the build:\n"
+    return (_MARKER_HEAD + _MARKER_LIST
             + "".join(f"{p}\n" for p in sorted(paths))).encode("utf-8")
 
 
 def site_listing(marker_text: str) -> set[str] | None:
     """The files a marker lists (with the marker itself), or None for an older marker that
     listed none."""
-    head, _, rest = marker_text.partition("files written by the build:\n")
-    if not rest and "files written by the build:" not in marker_text:
+    _, found, rest = marker_text.partition(_MARKER_LIST)
+    if not found:
         return None
     return {line for line in rest.splitlines() if line} | {SITE_MARKER}
 
@@ -314,15 +316,15 @@ def render_files(project: Project, runs: list[CalcRun], cache: RenderCache | Non
     return files
 
 
+_SOURCE_LINE_LINK = re.compile(r'href="(?:\.\./)?(source/[^"#]+)#L(\d+)"')
+
+
 def _linked_lines(pages: Any, sources: list[str]) -> dict[str, set[int]]:
     """For each source page, the line numbers the rendered pages link to (a long input file
     is summarised but keeps these, so no link of the site dangles)."""
-    import re
-
     out: dict[str, set[int]] = {s: set() for s in sources}
-    pattern = re.compile(r'href="(?:\.\./)?(source/[^"#]+)#L(\d+)"')
     for text in pages:
-        for m in pattern.finditer(text):
+        for m in _SOURCE_LINE_LINK.finditer(text):
             if m.group(1) in out:
                 out[m.group(1)].add(int(m.group(2)))
     return out
